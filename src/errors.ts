@@ -1,0 +1,71 @@
+/**
+ * One error shape for the whole tool. Library code throws `KerrError`; only the command line
+ * turns it into a one-line message and an exit code. Errors are data: a code, an optional path
+ * (file, option or field the problem concerns) and a hint saying what to do about it.
+ */
+export type KerrErrorCode =
+  | 'BAD_ARGUMENT' // an option or argument has the wrong form or value
+  | 'FILE_NOT_FOUND'
+  | 'FILE_EXISTS' // an output would overwrite an earlier result
+  | 'NOT_A_VIDEO'
+  | 'TRUNCATED_MEDIA'
+  | 'FFMPEG_MISSING'
+  | 'FFMPEG_FAILED'
+  | 'BAD_REGION'
+  | 'BAD_CSV'
+  | 'BAD_SCENARIO'
+  | 'NO_OVERLAP'
+  | 'NOT_IDENTIFIABLE'
+  | 'FIT_FAILED'
+  | 'BAD_RESULT'
+  | 'UNSAFE'
+  | 'INTERNAL';
+
+export interface KerrErrorFields {
+  /** The file, option or field the problem concerns, e.g. "--gap-mm" or "volts.csv:14:2". */
+  path?: string;
+  /** What the user can do about it, in one short sentence. */
+  hint?: string;
+  /** Extra machine-readable facts (frames read, sizes...). */
+  details?: Record<string, unknown>;
+}
+
+export class KerrError extends Error {
+  readonly code: KerrErrorCode;
+  readonly path: string | undefined;
+  readonly hint: string | undefined;
+  readonly details: Record<string, unknown> | undefined;
+
+  constructor(code: KerrErrorCode, message: string, fields: KerrErrorFields = {}) {
+    super(message);
+    this.name = 'KerrError';
+    this.code = code;
+    this.path = fields.path;
+    this.hint = fields.hint;
+    this.details = fields.details;
+  }
+
+  /** The single line the command line prints: message, then the hint. */
+  oneLine(): string {
+    return this.hint ? `${this.message}. ${this.hint}` : this.message;
+  }
+}
+
+/**
+ * The one error builder for bad values: "expected a positive gap in mm for --gap-mm but received -4".
+ * @example invalid('a positive gap in mm', '--gap-mm', -4)
+ */
+export function invalid(
+  expected: string,
+  where: string,
+  received: unknown,
+  hint?: string,
+  code: KerrErrorCode = 'BAD_ARGUMENT',
+): KerrError {
+  const shown = typeof received === 'string' ? JSON.stringify(received) : String(received);
+  return new KerrError(code, `expected ${expected} for ${where} but received ${shown}`, hint === undefined ? { path: where } : { path: where, hint });
+}
+
+export function isKerrError(e: unknown): e is KerrError {
+  return e instanceof KerrError;
+}

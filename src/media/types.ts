@@ -1,0 +1,76 @@
+/**
+ * Shared types of the media layer. Everything downstream (region measurement, maps, the analyze
+ * pipeline) codes against these.
+ */
+
+/** Pixel rectangle in the displayed frame (rotation applied), top-left origin. */
+export interface Rect {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+}
+
+export type TransferName = 'srgb' | 'bt709' | 'linear' | `gamma:${number}`;
+export type ColourRange = 'limited' | 'full';
+export type YuvMatrix = 'bt709' | 'bt601';
+
+/** What `probeVideo` learns about a file (the `inspect` command prints it). */
+export interface VideoInfo {
+  path: string;
+  container: string; // format_name, e.g. "mov,mp4,m4a,3gp,3g2,mj2"
+  codec: string; // e.g. "h264"
+  /** Displayed size: rotation metadata applied (90/270 swap width and height). */
+  width: number;
+  height: number;
+  codedWidth: number;
+  codedHeight: number;
+  rotationDeg: number; // 0, 90, 180, 270
+  frameCount: number; // from the container, or counted when the container does not say
+  frameCountCounted: boolean;
+  nominalFps: number | null; // r_frame_rate
+  meanFps: number | null; // frames / duration
+  variableFrameRate: boolean;
+  durationS: number;
+  startTimeS: number;
+  pixelFormat: string; // e.g. "yuv420p"
+  bitDepth: number;
+  colourRange: ColourRange | 'unknown';
+  colourTransfer: string; // ffprobe's color_transfer, or "unknown"
+  colourPrimaries: string;
+  colourMatrix: string; // ffprobe's color_space
+}
+
+/**
+ * One decoded frame. Planar 8-bit YUV 4:2:0 in the displayed orientation (ffmpeg applies the
+ * rotation), cropped/scaled if requested. `data` is a view into a buffer that the stream REUSES
+ * for the next frame: copy what you need before pulling the next frame.
+ */
+export interface Frame {
+  index: number; // 0-based index in presentation order
+  timeS: number; // presentation time from the container's timestamps, seconds
+  width: number;
+  height: number;
+  /** Y plane (width*height), then U and V planes (ceil(w/2)*ceil(h/2) each). */
+  data: Uint8Array;
+}
+
+/** How code values become linear light: range expansion, YUV matrix, transfer inversion. */
+export interface CameraDecoding {
+  range: ColourRange;
+  matrix: YuvMatrix;
+  transfer: TransferName;
+  /** A code value (0-255, after range expansion, any R/G/B channel) at or above this counts as clipped. */
+  clipCode: number;
+}
+
+/** Per-frame measurement of one region (linear units: 1.0 = full-scale white). */
+export interface RegionSample {
+  r: number;
+  g: number;
+  b: number;
+  /** Rec. 709 luminance 0.2126 R + 0.7152 G + 0.0722 B of the linear channels. */
+  luma: number;
+  pixelCount: number;
+  clippedFraction: number;
+}

@@ -1,0 +1,133 @@
+/**
+ * The shape of result.json, written by `analyze` (and `stills`), read by `compare` and the reports.
+ * One source of truth for the type. Every physical number is a Quantity {value, stdErr?, unit?},
+ * SI units; where a bare number is used its unit is in the field name.
+ */
+import type { Quantity } from '../quantity.js';
+import type { Rect } from '../media/types.js';
+
+export const RESULT_SCHEMA_VERSION = 1;
+
+export interface RunWarning {
+  /** Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable". */
+  code: string;
+  message: string;
+  /** Anchor of the matching section in docs/recording-a-run.md, e.g. "lock-exposure". */
+  guideSection?: string;
+}
+
+export interface RunEvent {
+  kind: 'spark' | 'particle' | 'clipped' | 'exposure-jump';
+  frameIndex: number;
+  timeS: number;
+  /** Size of the excursion in robust standard deviations (or clipped fraction for "clipped"). */
+  size: number;
+}
+
+export interface InputFile {
+  path: string;
+  sha256: string;
+}
+
+export interface FitModelParams {
+  /** Dark-subtracted model: I = I_floor + I_amp·sin²(2θ)·sin²(δ/2) (+ I_dark when no dark region). */
+  darkLevel: number; // linear units, subtracted before the fit (0 when not measured)
+  floorLevel: Quantity; // I_floor (linear units)
+  amplitude: Quantity; // I_amp (linear units)
+  kerrConstant: Quantity; // m/V^2
+  effectiveLengthM: number;
+  gapM: number;
+  polariserAngleDeg: number;
+  staticRetardanceRad: number;
+}
+
+export interface RunResult {
+  schemaVersion: typeof RESULT_SCHEMA_VERSION;
+  kind: 'kerrtrace-run';
+  label: string;
+  createdAt: string; // ISO-8601
+  /** "video" for analyze, "stills" for the photo-series command. */
+  source: 'video' | 'stills';
+  tool: { name: 'kerrtrace'; version: string; ffmpegVersion: string | null; node: string };
+  inputs: { video?: InputFile; volts?: InputFile; openVideo?: InputFile; stills?: InputFile[]; baseline?: InputFile };
+  options: Record<string, unknown>;
+  cell: {
+    lengthM: number;
+    effectiveLengthM: number;
+    gapM: number;
+    polariserAngleDeg: number;
+    electrodeHeightM: number | null;
+    wavelengthNm: number | null;
+  };
+  camera: {
+    width: number;
+    height: number;
+    fps: number | null;
+    variableFrameRate: boolean;
+    transfer: string;
+    range: string;
+  };
+  regions: { beam: Rect; beamAuto: boolean; dark?: Rect; surround?: Rect; reference?: Rect };
+
+  // Headline figures (required by the analyze interface)
+  kerrConstant: Quantity; // m/V^2
+  halfWaveVoltage: Quantity; // V
+  syncOffset: Quantity; // s, video time minus log time of the same instant
+  floorFraction: Quantity; // I_floor / I_amp
+  contrastRatio: Quantity; // highest / lowest fitted dark-subtracted intensity over the recorded range
+  quarterWaveVoltage: Quantity; // V
+
+  /** False when I_amp and V_π cannot be told apart (sweep too low, no open level): B is then not reported as a number. */
+  identifiable: boolean;
+  identifiability: { ampVpiCorrelation: number; relStdErrB: number; maxVoltageOverHalfWave: number; openLevelUsed: boolean };
+
+  model: FitModelParams;
+  fit: {
+    converged: boolean;
+    iterations: number;
+    reason: string;
+    residualRms: number;
+    degreesOfFreedom: number;
+    starts: number;
+    robust: 'huber' | 'none';
+  };
+  /** Classic reduction: V² against 2·arcsin√T on the first branch. */
+  linearised: { kerrConstant: Quantity; points: number; agreesWithFit: boolean; zScore: number } | null;
+  sync: {
+    manual: boolean;
+    offsetS: number;
+    /** Curvature-based 1-sigma width of the optimum, s. */
+    sharpnessS: number | null;
+    ambiguous: boolean;
+    /** Agreement (e.g. R² of the model) against trial offset, for the report's sync plot. */
+    curve: { offsetS: number[]; score: number[] };
+  };
+  frames: { total: number; used: number; excluded: Record<string, number> };
+  events: RunEvent[];
+  log: { rows: number; spanS: number; currentColumn: boolean; temperatureC: Quantity | null };
+  scatter?: {
+    haloToCoreRatio?: Quantity;
+    particleEventRate?: Quantity; // per minute
+    floorFlicker?: Quantity; // relative std of the zero-field floor
+    polariserLeakFraction?: Quantity;
+    scatterFloorFraction?: Quantity;
+  };
+  hysteresis?: { up: Quantity; down: Quantity; difference: Quantity; zScore: number; flagged: boolean };
+  conductivity?: { resistivity: Quantity; joulePower: Quantity; readable: boolean; note?: string };
+  channels?: { r: Quantity; g: Quantity; b: Quantity; note: string };
+  warnings: RunWarning[];
+  /** Files written beside result.json, relative names. */
+  files: Record<string, string>;
+}
+
+/** One row of trace.csv (and the in-memory trace handed to the report). */
+export interface TraceRow {
+  frameIndex: number;
+  timeS: number; // video time
+  voltageV: number | null; // log interpolated at (timeS − offset); null outside the log
+  intensity: number; // measured, linear units, dark-subtracted and exposure-normalised
+  model: number | null;
+  residual: number | null;
+  used: boolean;
+  excludedReason: string | null; // "outside-log", "spark", "particle", "clipped", ...
+}
