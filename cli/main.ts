@@ -3,25 +3,10 @@
  * on the program; this file only wires them and handles --version.
  */
 import { Command, CommanderError } from 'commander';
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
-import { dirname, join } from 'node:path';
 import { locate } from '../src/media/ffmpegPaths.js';
 import { reportError } from './action.js';
+import { toolVersion } from './toolVersion.js';
 import { registerCommands } from './commands/index.js';
-
-export function toolVersion(): string {
-  const here = dirname(fileURLToPath(import.meta.url));
-  for (const p of [join(here, '..', '..', 'package.json'), join(here, '..', 'package.json')]) {
-    try {
-      const pkg = JSON.parse(readFileSync(p, 'utf8')) as { name?: string; version?: string };
-      if (pkg.name === 'kerrtrace' && pkg.version) return pkg.version;
-    } catch {
-      // try the next location
-    }
-  }
-  return 'unknown';
-}
 
 function versionText(): string {
   let ff = 'not found';

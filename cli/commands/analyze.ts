@@ -1,6 +1,134 @@
+/**
+ * `kerrtrace analyze VIDEO --volts CSV --length-mm L --gap-mm D [...]`: the main job.
+ */
 import type { Command } from 'commander';
+import { action } from '../action.js';
+import { KerrError, invalid } from '../../src/errors.js';
+import { formatQuantity } from '../../src/quantity.js';
+import { parseRect } from '../../src/measure/rect.js';
+import { analyzeRun, checkAnalyzeOptions, defaultOutDir, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { checkOutputDir } from '../../src/io/outputDir.js';
+import { finishRun } from '../../src/pipeline/finishRun.js';
+import type { TransferName } from '../../src/media/types.js';
+import { makeProgress } from '../progress.js';
+import { toolVersionInfo } from '../versions.js';
 
-/** Registers the `analyze` command (not yet built). */
+export function parseNumber(text: string, option: string, what: string): number {
+  const x = Number(text);
+  if (text.trim() === '' || !Number.isFinite(x)) throw invalid(what, option, text);
+  return x;
+}
+
+export function parseTransfer(text: string): TransferName {
+  if (text === 'srgb' || text === 'bt709' || text === 'linear') return text;
+  const m = /^gamma:(\d+(?:\.\d+)?)$/.exec(text);
+  if (m && Number(m[1]) > 0) return `gamma:${Number(m[1])}`;
+  throw invalid('srgb, bt709, linear or gamma:G (e.g. gamma:2.2)', '--transfer', text);
+}
+
+function parseWindow(text: string): [number, number] {
+  const m = /^\s*(-?[\d.]+)\s*:\s*(-?[\d.]+)\s*$/.exec(text);
+  if (!m) throw invalid('START:END in seconds of the video, e.g. 1.5:4', '--open-window', text);
+  return [Number(m[1]), Number(m[2])];
+}
+
+export interface AnalyzeCliOptions {
+  volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
+  offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
+  polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean;
+}
+
+export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
+  if (!c.volts) throw new KerrError('BAD_ARGUMENT', 'the voltage log is missing', { path: '--volts', hint: 'Give it with --volts FILE.csv' });
+  if (c.lengthMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode length is missing', { path: '--length-mm', hint: 'Give it with --length-mm L (mm)' });
+  if (c.gapMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode gap is missing', { path: '--gap-mm', hint: 'Give it with --gap-mm D (mm)' });
+  const o: AnalyzeOptions = {
+    videoPath: video,
+    voltsPath: c.volts,
+    lengthMm: parseNumber(c.lengthMm, '--length-mm', 'a positive electrode length in mm'),
+    gapMm: parseNumber(c.gapMm, '--gap-mm', 'a positive electrode gap in mm'),
+  };
+  if (c.effectiveLengthMm !== undefined) o.effectiveLengthMm = parseNumber(c.effectiveLengthMm, '--effective-length-mm', 'an effective length in mm');
+  if (c.polariserAngleDeg !== undefined) o.polariserAngleDeg = parseNumber(c.polariserAngleDeg, '--polariser-angle-deg', 'an angle in degrees');
+  if (c.staticRetardanceRad !== undefined) o.staticRetardanceRad = parseNumber(c.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
+  if (c.roi !== undefined) o.roi = parseRect(c.roi, '--roi');
+  if (c.darkRoi !== undefined) o.darkRoi = parseRect(c.darkRoi, '--dark-roi');
+  if (c.referenceRoi !== undefined) o.referenceRoi = parseRect(c.referenceRoi, '--reference-roi');
+  if (c.offsetS !== undefined) o.offsetS = parseNumber(c.offsetS, '--offset-s', 'an offset in seconds');
+  if (c.openWindow !== undefined) o.openWindowS = parseWindow(c.openWindow);
+  if (c.openVideo !== undefined) o.openVideoPath = c.openVideo;
+  if (c.openLevel !== undefined) o.openLevel = parseNumber(c.openLevel, '--open-level', 'a positive open level in linear units');
+  if (c.transfer !== undefined) o.transfer = parseTransfer(c.transfer);
+  if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
+  if (c.label !== undefined) o.label = c.label;
+  if (c.robust === false) o.robust = false;
+  return o;
+}
+
 export function register(program: Command): void {
-  void program;
+  program
+    .command('analyze')
+    .description('measure the Kerr constant, half-wave voltage, floor and contrast from a video and its voltage log')
+    .argument('<video>', 'the recording (any format ffmpeg reads)')
+    .option('--volts <csv>', 'voltage log CSV (see docs/voltage-log.md)')
+    .option('--length-mm <L>', 'electrode length along the beam, mm')
+    .option('--gap-mm <D>', 'electrode gap, mm')
+    .option('--out <dir>', 'output folder (default: <video name>.kerrtrace beside the video)')
+    .option('--force', 'replace an existing output folder')
+    .option('--roi <x,y,w,h>', 'beam region in pixels of the displayed frame (default: found automatically)')
+    .option('--dark-roi <x,y,w,h>', 'background region (default: an annulus just outside the beam)')
+    .option('--reference-roi <x,y,w,h>', 'region of constant true brightness, used to correct exposure changes')
+    .option('--offset-s <S>', 'video time minus log time of the same instant, s (default: found automatically)')
+    .option('--open-window <START:END>', 'seconds of this video with the analyser parallel and no field')
+    .option('--open-video <file>', 'a clip with the analyser parallel and no field, same camera settings')
+    .option('--open-level <X>', 'open level in the linear units of trace.csv')
+    .option('--effective-length-mm <LE>', 'effective length including fringe fields, mm (default: --length-mm)')
+    .option('--polariser-angle-deg <A>', 'polariser angle to the field, degrees (default 45)')
+    .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
+    .option('--transfer <name>', 'camera transfer: srgb, bt709, gamma:G or linear (default: from the video metadata)')
+    .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
+    .option('--label <text>', 'a name for this run in reports and comparisons')
+    .option('--no-robust', 'plain least squares instead of Huber weighting')
+    .option('--no-report', 'skip report.html, plots and summary.md')
+    .option('--json', 'print result.json instead of the summary')
+    .option('--quiet', 'no progress bar')
+    .action(action(async (video: string, c: AnalyzeCliOptions) => {
+      const o = toAnalyzeOptions(video, c);
+      checkAnalyzeOptions(o);
+      const outDir = c.out ?? defaultOutDir(video);
+      checkOutputDir(outDir, c.force === true, [video, o.voltsPath]);
+      const progress = makeProgress('decoding', c.quiet === true || c.json === true);
+      const versions = toolVersionInfo();
+      let out;
+      try {
+        out = await analyzeRun(o, { ...versions, onProgress: (_s, d, t) => progress.update(d, t) });
+      } finally {
+        progress.stop();
+      }
+      const written = await finishRun(out, { outDir, force: c.force === true, report: c.report !== false });
+      if (c.json) {
+        process.stdout.write(`${JSON.stringify(out.result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
+      } else {
+        process.stdout.write(summaryText(out.result, written));
+      }
+    }));
+}
+
+export function summaryText(r: import('../../src/result/schema.js').RunResult, dir: string): string {
+  const lines: string[] = [];
+  lines.push(`kerrtrace: ${r.label}`);
+  if (r.identifiable) {
+    lines.push(`  Kerr constant B      ${formatQuantity(r.kerrConstant)}`);
+    lines.push(`  half-wave voltage    ${formatQuantity(r.halfWaveVoltage)}`);
+  } else {
+    lines.push('  Kerr constant B      not identifiable from this sweep (see warnings)');
+  }
+  lines.push(`  floor fraction       ${formatQuantity(r.floorFraction)}`);
+  lines.push(`  contrast ratio       ${formatQuantity(r.contrastRatio)}`);
+  lines.push(`  sync offset          ${formatQuantity(r.syncOffset)}${r.sync.manual ? ' (given)' : ''}`);
+  lines.push(`  frames used          ${r.frames.used} of ${r.frames.total}${Object.keys(r.frames.excluded).length ? ` (left out: ${Object.entries(r.frames.excluded).map(([k, v]) => `${v} ${k}`).join(', ')})` : ''}`);
+  for (const w of r.warnings) lines.push(`  warning: ${w.message}`);
+  lines.push(`  files: ${dir}`);
+  return `${lines.join('\n')}\n`;
 }

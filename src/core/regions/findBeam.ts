@@ -1,0 +1,127 @@
+/**
+ * Finds the modulated beam on a decimated luminance grid stored for every frame: the block whose
+ * light varies most over the run (95th minus 5th percentile over time, so that a few flashes do
+ * not count), grown to its 4-connected neighbours that vary at least `threshold` times as much.
+ * Also proposes a surround annulus (a ring of blocks just outside the beam) for the local
+ * background. Pure; throws KerrError BAD_REGION when nothing in the frame follows the drive.
+ */
+import { KerrError } from '../../errors.js';
+
+export interface CellBox {
+  x0: number; // inclusive block indices
+  y0: number;
+  x1: number;
+  y1: number;
+}
+
+export interface BeamCells {
+  beam: CellBox;
+  /** Annulus = outer minus inner (inner is the beam grown by a gap). */
+  surroundInner: CellBox;
+  surroundOuter: CellBox;
+  /** Temporal variation (p95 − p5) of the strongest block and its median over the grid. */
+  peakRange: number;
+  medianRange: number;
+  /** Per-block temporal range, gridWidth*gridHeight, for the region overlay or maps. */
+  rangeMap: Float32Array;
+}
+
+export interface FindBeamInput {
+  /** frames × cells, row-major per frame. */
+  grid: Float32Array;
+  frames: number;
+  gridWidth: number;
+  gridHeight: number;
+  /** Frames to skip (e.g. sparks): 1 = usable. */
+  usable?: Uint8Array;
+  threshold?: number;
+  maxSampleFrames?: number;
+}
+
+function percentile(sorted: Float64Array, q: number): number {
+  const pos = q * (sorted.length - 1);
+  const lo = Math.floor(pos);
+  const hi = Math.min(sorted.length - 1, lo + 1);
+  return sorted[lo]! + (sorted[hi]! - sorted[lo]!) * (pos - lo);
+}
+
+export function findBeam(input: FindBeamInput): BeamCells {
+  const { grid, frames, gridWidth: gw, gridHeight: gh } = input;
+  const cells = gw * gh;
+  const threshold = input.threshold ?? 0.25;
+  const maxSample = input.maxSampleFrames ?? 400;
+  const chosen: number[] = [];
+  const stride = Math.max(1, Math.floor(frames / maxSample));
+  for (let f = 0; f < frames; f += stride) if (!input.usable || input.usable[f]) chosen.push(f);
+  if (chosen.length < 5) {
+    throw new KerrError('BAD_REGION', `only ${chosen.length} usable frames to look for the beam in`, {
+      hint: 'Give the beam region with --roi x,y,w,h',
+    });
+  }
+  const rangeMap = new Float32Array(cells);
+  const series = new Float64Array(chosen.length);
+  for (let c = 0; c < cells; c++) {
+    for (let k = 0; k < chosen.length; k++) series[k] = grid[chosen[k]! * cells + c]!;
+    series.sort();
+    rangeMap[c] = percentile(series, 0.95) - percentile(series, 0.05);
+  }
+  let peak = 0;
+  for (let c = 1; c < cells; c++) if (rangeMap[c]! > rangeMap[peak]!) peak = c;
+  const sortedRanges = Float64Array.from(rangeMap).sort();
+  const medianRange = percentile(sortedRanges, 0.5);
+  const peakRange = rangeMap[peak]!;
+  if (!(peakRange > 0) || peakRange < 4 * medianRange + 1e-4) {
+    throw new KerrError('BAD_REGION', 'no part of the frame brightens and darkens clearly with the drive, so the beam could not be found automatically', {
+      hint: 'Give the beam region with --roi x,y,w,h (see `kerrtrace trace` to check a region)',
+    });
+  }
+  // Flood fill from the peak.
+  const limit = threshold * peakRange;
+  const seen = new Uint8Array(cells);
+  const stack = [peak];
+  seen[peak] = 1;
+  const box: CellBox = { x0: peak % gw, y0: Math.floor(peak / gw), x1: peak % gw, y1: Math.floor(peak / gw) };
+  while (stack.length > 0) {
+    const c = stack.pop()!;
+    const x = c % gw;
+    const y = (c - x) / gw;
+    box.x0 = Math.min(box.x0, x); box.x1 = Math.max(box.x1, x);
+    box.y0 = Math.min(box.y0, y); box.y1 = Math.max(box.y1, y);
+    const nb = [x > 0 ? c - 1 : -1, x < gw - 1 ? c + 1 : -1, y > 0 ? c - gw : -1, y < gh - 1 ? c + gw : -1];
+    for (const m of nb) {
+      if (m >= 0 && !seen[m] && rangeMap[m]! >= limit) {
+        seen[m] = 1;
+        stack.push(m);
+      }
+    }
+  }
+  const size = Math.max(box.x1 - box.x0 + 1, box.y1 - box.y0 + 1);
+  const gap = 1;
+  const ring = Math.max(2, Math.round(size / 2));
+  const grow = (b: CellBox, by: number): CellBox => ({
+    x0: Math.max(0, b.x0 - by), y0: Math.max(0, b.y0 - by),
+    x1: Math.min(gw - 1, b.x1 + by), y1: Math.min(gh - 1, b.y1 + by),
+  });
+  return {
+    beam: box,
+    surroundInner: grow(box, gap),
+    surroundOuter: grow(box, gap + ring),
+    peakRange,
+    medianRange,
+    rangeMap,
+  };
+}
+
+/** Mean over a block box of one frame's grid. */
+export function cellBoxMean(grid: Float32Array, offset: number, gridWidth: number, box: CellBox): number {
+  let s = 0;
+  for (let y = box.y0; y <= box.y1; y++) {
+    const row = offset + y * gridWidth;
+    for (let x = box.x0; x <= box.x1; x++) s += grid[row + x]!;
+  }
+  return s / ((box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1));
+}
+
+export function cellBoxCount(box: CellBox): number {
+  return (box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1);
+}

@@ -1,0 +1,583 @@
+/**
+ * The analyze pipeline: video + voltage log → Kerr constant, half-wave voltage, floor, contrast,
+ * sync offset, written as result.json + trace.csv (+ reports where available).
+ *
+ * Data flows one way: probe → one decoding pass (frame times, a decimated luminance grid of every
+ * frame, full-resolution means of the user's regions) → beam and surround → exposure and dark
+ * correction → flash detection → sync search → Kerr fit → result record. The grid pass also feeds
+ * the static/modulated maps. Only this file and the CLI touch files and processes; the maths lives
+ * in src/core.
+ */
+import { existsSync, statSync } from 'node:fs';
+import { basename, dirname, extname, join, resolve } from 'node:path';
+import { KerrError, invalid } from '../errors.js';
+import { quantity, type Quantity } from '../quantity.js';
+import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/types.js';
+import { probeVideo } from '../media/probe.js';
+import { openFrameStream } from '../media/frameStream.js';
+import { decodingFor } from '../core/camera/decodingFor.js';
+import { createRegionMeter } from '../measure/regionMeter.js';
+import { createGridSampler } from '../measure/gridSampler.js';
+import { validateRect } from '../measure/rect.js';
+import { readVoltageLog } from '../io/readVoltageLog.js';
+import type { VoltageLog } from '../io/voltageLog.js';
+import { interpolateAt } from '../core/signal/interpolate.js';
+import { findSyncOffset } from '../core/sync/findSyncOffset.js';
+import { findBeam, cellBoxMean, type CellBox } from '../core/regions/findBeam.js';
+import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
+import { detectFlashes } from '../core/events/detectFlashes.js';
+import { detectSpikes } from '../core/events/detectSpikes.js';
+import { voltageNoiseV } from '../core/signal/voltageNoise.js';
+import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
+import { fitKerrCurve, type KerrCurveFit } from './fitKerrCurve.js';
+import { linearisedKerr } from '../core/fit/linearisedKerr.js';
+import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
+
+export interface AnalyzeOptions {
+  videoPath: string;
+  voltsPath: string;
+  lengthMm: number;
+  gapMm: number;
+  effectiveLengthMm?: number;
+  polariserAngleDeg?: number;
+  staticRetardanceRad?: number;
+  roi?: Rect;
+  darkRoi?: Rect;
+  referenceRoi?: Rect;
+  offsetS?: number;
+  openWindowS?: [number, number];
+  openVideoPath?: string;
+  openLevel?: number;
+  transfer?: TransferName;
+  electrodeHeightMm?: number;
+  label?: string;
+  robust?: boolean;
+}
+
+export interface AnalyzeHooks {
+  onProgress?: (stage: string, done: number, total: number) => void;
+  toolVersion: string;
+  ffmpegVersion: string | null;
+}
+
+export interface GridStore {
+  data: Float32Array; // frames × cells
+  frames: number;
+  gridWidth: number;
+  gridHeight: number;
+  step: number;
+}
+
+export interface AnalyzeOutput {
+  result: RunResult;
+  trace: TraceRow[];
+  grid: GridStore;
+  frameTimesS: Float64Array;
+  /** Dark-subtracted, exposure-normalised beam intensity per frame. */
+  intensity: Float64Array;
+  /** Modulation term per frame, T(V) with the fitted V_π (NaN outside the log). */
+  modulation: Float64Array;
+  usable: Uint8Array;
+  fit: KerrCurveFit;
+  info: VideoInfo;
+  decoding: CameraDecoding;
+}
+
+const MM = 1e-3;
+
+function positive(value: number | undefined, what: string, option: string): number {
+  if (value === undefined || !Number.isFinite(value) || value <= 0) throw invalid(`a positive ${what}`, option, value);
+  return value;
+}
+
+/** Checks everything that can be checked before decoding starts. */
+export function checkAnalyzeOptions(o: AnalyzeOptions): void {
+  for (const [p, opt] of [[o.videoPath, 'VIDEO'], [o.voltsPath, '--volts']] as const) {
+    if (!existsSync(p)) throw new KerrError('FILE_NOT_FOUND', `${p} does not exist`, { path: opt, hint: 'Check the path' });
+    if (!statSync(p).isFile()) throw new KerrError('FILE_NOT_FOUND', `${p} is not a file`, { path: opt, hint: 'Give the path of a file' });
+  }
+  positive(o.lengthMm, 'electrode length in mm', '--length-mm');
+  positive(o.gapMm, 'electrode gap in mm', '--gap-mm');
+  if (o.effectiveLengthMm !== undefined) {
+    positive(o.effectiveLengthMm, 'effective length in mm', '--effective-length-mm');
+    if (o.effectiveLengthMm < o.lengthMm) {
+      throw invalid(`an effective length at least the electrode length (${o.lengthMm} mm)`, '--effective-length-mm', o.effectiveLengthMm, 'Fringe fields only lengthen the cell');
+    }
+  }
+  if (o.electrodeHeightMm !== undefined) positive(o.electrodeHeightMm, 'electrode height in mm', '--electrode-height-mm');
+  const opens = [o.openWindowS, o.openVideoPath, o.openLevel].filter((x) => x !== undefined).length;
+  if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
+  if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
+  if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
+  if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
+}
+
+/** Default output folder: beside the video, "<name>.kerrtrace". */
+export function defaultOutDir(videoPath: string): string {
+  const abs = resolve(videoPath);
+  return join(dirname(abs), `${basename(abs, extname(abs))}.kerrtrace`);
+}
+
+function grow(r: Rect, by: number, w: number, h: number): Rect {
+  const x0 = Math.max(0, r.x - by);
+  const y0 = Math.max(0, r.y - by);
+  const x1 = Math.min(w, r.x + r.w + by);
+  const y1 = Math.min(h, r.y + r.h + by);
+  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+}
+
+function cellsToRect(b: CellBox, step: number): Rect {
+  return { x: b.x0 * step, y: b.y0 * step, w: (b.x1 - b.x0 + 1) * step, h: (b.y1 - b.y0 + 1) * step };
+}
+
+function median(a: ArrayLike<number>): number {
+  const s = Array.from(a).filter(Number.isFinite).sort((x, y) => x - y);
+  if (s.length === 0) return NaN;
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+}
+
+/** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
+function chooseGridStep(info: VideoInfo): number {
+  let step = Math.max(2, Math.ceil(info.width / 160));
+  const frames = Math.max(1, info.frameCount);
+  while ((info.width / step) * (info.height / step) * frames > 60e6) step++;
+  return step;
+}
+
+interface PassOutput {
+  times: Float64Array;
+  grid: GridStore;
+  regionMeans: Float64Array[]; // per region: luma per frame
+  regionClipped: Float64Array[];
+  frames: number;
+}
+
+async function decodePass(path: string, info: VideoInfo, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
+  const cap0 = Math.max(16, info.frameCount + 8);
+  let cap = cap0;
+  let times = new Float64Array(cap);
+  const gw = step ? Math.floor(info.width / step) : 0;
+  const gh = step ? Math.floor(info.height / step) : 0;
+  const cells = gw * gh;
+  let grid = new Float32Array(step ? cap * cells : 0);
+  let means = regions.map(() => new Float64Array(cap));
+  let clipped = regions.map(() => new Float64Array(cap));
+  const meter = regions.length ? createRegionMeter(info.width, info.height, regions, decoding) : null;
+  const sampler = step ? createGridSampler(info.width, info.height, step, decoding) : null;
+  let n = 0;
+  const growTo = (next: number) => {
+    const t2 = new Float64Array(next); t2.set(times); times = t2;
+    if (step) { const g2 = new Float32Array(next * cells); g2.set(grid); grid = g2; }
+    means = means.map((m) => { const a = new Float64Array(next); a.set(m); return a; });
+    clipped = clipped.map((m) => { const a = new Float64Array(next); a.set(m); return a; });
+    cap = next;
+  };
+  const stream = openFrameStream(path, onProgress ? { onProgress } : {});
+  for await (const frame of stream) {
+    if (n >= cap) growTo(Math.ceil(cap * 1.5));
+    times[n] = frame.timeS;
+    if (sampler) sampler.sample(frame, grid.subarray(n * cells, (n + 1) * cells));
+    if (meter) {
+      const samples = meter.measure(frame);
+      for (let r = 0; r < samples.length; r++) {
+        means[r]![n] = samples[r]!.luma;
+        clipped[r]![n] = samples[r]!.clippedFraction;
+      }
+    }
+    n++;
+  }
+  return {
+    times: times.slice(0, n),
+    grid: { data: step ? grid.subarray(0, n * cells) : grid, frames: n, gridWidth: gw, gridHeight: gh, step: step ?? 0 },
+    regionMeans: means.map((m) => m.slice(0, n)),
+    regionClipped: clipped.map((m) => m.slice(0, n)),
+    frames: n,
+  };
+}
+
+export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promise<AnalyzeOutput> {
+  checkAnalyzeOptions(o);
+  const warnings: RunWarning[] = [];
+  const warn = (code: string, message: string, guideSection?: string) => {
+    warnings.push(guideSection ? { code, message, guideSection } : { code, message });
+  };
+  const info = await probeVideo(o.videoPath);
+  const decoding = decodingFor(info, o.transfer ? { transfer: o.transfer } : {});
+  for (const [r, opt] of [[o.roi, '--roi'], [o.darkRoi, '--dark-roi'], [o.referenceRoi, '--reference-roi']] as const) {
+    if (r) validateRect(r, info.width, info.height, opt);
+  }
+  const log: VoltageLog = await readVoltageLog(o.voltsPath);
+  let vAbsMax = 0;
+  for (const v of log.voltageV) vAbsMax = Math.max(vAbsMax, Math.abs(v));
+  if (!(vAbsMax > 0)) {
+    throw new KerrError('NOT_IDENTIFIABLE', `the voltage log ${o.voltsPath} never leaves zero`, { path: '--volts', hint: 'Check the voltage column and its unit, or record a sweep' });
+  }
+
+  // ---- one decoding pass ----
+  const regions: Rect[] = [];
+  const idx: Record<string, number> = {};
+  const add = (name: string, r: Rect) => { idx[name] = regions.length; regions.push(r); };
+  let geom: SurroundGeometry | undefined;
+  if (o.roi) {
+    add('beam', o.roi);
+    if (!o.darkRoi) {
+      const side = Math.min(o.roi.w, o.roi.h);
+      const gapPx = Math.max(2, Math.round(0.15 * side));
+      const ringPx = Math.max(4, Math.round(0.25 * side));
+      const a0 = grow(o.roi, gapPx, info.width, info.height);
+      const a1 = grow(a0, ringPx, info.width, info.height);
+      const b1 = grow(a1, ringPx, info.width, info.height);
+      geom = { beam: o.roi, a0, a1, b1 };
+      add('a0', a0);
+      add('a1', a1);
+      add('b1', b1);
+    }
+  }
+  if (o.darkRoi) add('dark', o.darkRoi);
+  if (o.referenceRoi) add('reference', o.referenceRoi);
+  const step = chooseGridStep(info);
+  const pass = await decodePass(o.videoPath, info, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
+  const nFrames = pass.frames;
+  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', `${o.videoPath} has only ${nFrames} decodable frames`, { hint: 'Record a longer clip' });
+  const { grid } = pass;
+  const cells = grid.gridWidth * grid.gridHeight;
+  const times = pass.times;
+
+  // ---- flashes: whole-frame brightness jumps ----
+  const frameMean = new Float64Array(nFrames);
+  for (let f = 0; f < nFrames; f++) {
+    let s = 0;
+    const off = f * cells;
+    for (let c = 0; c < cells; c++) s += grid.data[off + c]!;
+    frameMean[f] = s / cells;
+  }
+  const flashes = detectFlashes(frameMean);
+  const events: RunEvent[] = [];
+  for (let f = 0; f < nFrames; f++) if (flashes.flags[f]) events.push({ kind: 'spark', frameIndex: f, timeS: times[f]!, size: flashes.z[f]! });
+
+  // ---- beam, surround and their series ----
+  let beamRect: Rect;
+  let beamAuto = false;
+  const beamRaw = new Float64Array(nFrames);
+  const surroundRaw = new Float64Array(nFrames);
+  let haveSurround = true;
+  const beamClipped = new Float64Array(nFrames);
+  /** Per-frame means of [beam, a0, a1, b1]. */
+  let rectMeans: (f: number) => [number, number, number, number];
+  if (o.roi) {
+    beamRect = o.roi;
+    beamRaw.set(pass.regionMeans[idx.beam!]!);
+    beamClipped.set(pass.regionClipped[idx.beam!]!);
+    rectMeans = geom
+      ? (f) => [beamRaw[f]!, pass.regionMeans[idx.a0!]![f]!, pass.regionMeans[idx.a1!]![f]!, pass.regionMeans[idx.b1!]![f]!]
+      : () => [0, 0, 0, 0];
+  } else {
+    const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
+    beamAuto = true;
+    const gw = grid.gridWidth, gh = grid.gridHeight;
+    const growCells = (c: CellBox, by: number): CellBox => ({ x0: Math.max(0, c.x0 - by), y0: Math.max(0, c.y0 - by), x1: Math.min(gw - 1, c.x1 + by), y1: Math.min(gh - 1, c.y1 + by) });
+    const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);
+    const ring = Math.max(2, Math.round(size / 3));
+    const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
+    beamRect = cellsToRect(found.beam, grid.step);
+    geom = { beam: beamRect, a0: cellsToRect(boxes[1], grid.step), a1: cellsToRect(boxes[2], grid.step), b1: cellsToRect(boxes[3], grid.step) };
+    for (let f = 0; f < nFrames; f++) beamRaw[f] = cellBoxMean(grid.data, f * cells, gw, found.beam);
+    rectMeans = (f) => {
+      const off = f * cells;
+      return [beamRaw[f]!, cellBoxMean(grid.data, off, gw, boxes[1]), cellBoxMean(grid.data, off, gw, boxes[2]), cellBoxMean(grid.data, off, gw, boxes[3])];
+    };
+    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
+  }
+  if (o.darkRoi) {
+    surroundRaw.set(pass.regionMeans[idx.dark!]!);
+  } else {
+    const sw = surroundWeights(geom!);
+    if (sw.ringACount < 16) {
+      haveSurround = false;
+      warn('no-surround', 'the beam region leaves no room for a surround ring, so the floor includes any background light; give --dark-roi', 'camera-still');
+    } else {
+      const c = sw.coefficients;
+      for (let f = 0; f < nFrames; f++) {
+        const m = rectMeans(f);
+        surroundRaw[f] = c[1] * m[1] + c[2] * m[2] + c[3] * m[3];
+      }
+    }
+  }
+
+  // ---- flashes again, now on the light outside the beam and its rings ----
+  {
+    const outer = geom ? geom.b1 : beamRect;
+    const cx0 = Math.floor(outer.x / grid.step), cy0 = Math.floor(outer.y / grid.step);
+    const cx1 = Math.min(grid.gridWidth - 1, Math.ceil((outer.x + outer.w) / grid.step) - 1);
+    const cy1 = Math.min(grid.gridHeight - 1, Math.ceil((outer.y + outer.h) / grid.step) - 1);
+    const inside = Math.max(0, cx1 - cx0 + 1) * Math.max(0, cy1 - cy0 + 1);
+    if (cells - inside >= 16) {
+      for (let f = 0; f < nFrames; f++) {
+        let sIn = 0;
+        const off = f * cells;
+        for (let y = cy0; y <= cy1; y++) for (let x = cx0; x <= cx1; x++) sIn += grid.data[off + y * grid.gridWidth + x]!;
+        frameMean[f] = (frameMean[f]! * cells - sIn) / (cells - inside);
+      }
+      const again = detectFlashes(frameMean);
+      flashes.flags.set(again.flags);
+      flashes.z.set(again.z);
+      flashes.count = again.count;
+      events.length = 0;
+      for (let f = 0; f < nFrames; f++) if (flashes.flags[f]) events.push({ kind: 'spark', frameIndex: f, timeS: times[f]!, size: flashes.z[f]! });
+    }
+  }
+
+  // ---- exposure gain from a reference region ----
+  const gain = new Float64Array(nFrames).fill(1);
+  if (o.referenceRoi) {
+    const ref = pass.regionMeans[idx.reference!]!;
+    const refMedian = median(ref);
+    if (!(refMedian > 1e-4)) {
+      warn('reference-dark', 'the reference region is nearly black, so exposure could not be corrected from it', 'lock-exposure');
+    } else {
+      for (let f = 0; f < nFrames; f++) gain[f] = ref[f]! / refMedian;
+    }
+  }
+
+  // ---- corrected intensity and exclusions ----
+  const intensity = new Float64Array(nFrames);
+  const excluded: (string | null)[] = new Array(nFrames).fill(null);
+  for (let f = 0; f < nFrames; f++) {
+    intensity[f] = (beamRaw[f]! - (haveSurround ? surroundRaw[f]! : 0)) / gain[f]!;
+    if (flashes.flags[f]) excluded[f] = 'spark';
+    else if (beamClipped[f]! > 0.01) excluded[f] = 'clipped';
+  }
+  const clippedFrames = excluded.filter((e) => e === 'clipped').length;
+  if (clippedFrames > 0) {
+    for (let f = 0; f < nFrames; f++) if (excluded[f] === 'clipped') events.push({ kind: 'clipped', frameIndex: f, timeS: times[f]!, size: beamClipped[f]! });
+    warn('clipping', `${clippedFrames} frames have more than 1% clipped pixels in the beam and were left out; defocus the spot, add an ND filter or lower the exposure`, 'avoid-clipping');
+  }
+
+  // open window frames
+  let openLevel: number | undefined = o.openLevel;
+  if (o.openWindowS) {
+    const [a, b] = o.openWindowS;
+    const vals: number[] = [];
+    for (let f = 0; f < nFrames; f++) {
+      if (times[f]! >= a && times[f]! <= b) {
+        if (!excluded[f]) vals.push(intensity[f]!);
+        excluded[f] = 'open-window';
+      }
+    }
+    if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frames (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
+    openLevel = median(vals);
+  }
+  if (o.openVideoPath) {
+    const openInfo = await probeVideo(o.openVideoPath);
+    if (openInfo.width !== info.width || openInfo.height !== info.height) {
+      throw new KerrError('BAD_ARGUMENT', `the open video is ${openInfo.width}×${openInfo.height} but the run is ${info.width}×${info.height}`, { path: '--open-video', hint: 'Record the open level with the same camera settings' });
+    }
+    const openRegions: Rect[] = [beamRect];
+    if (o.darkRoi) openRegions.push(o.darkRoi);
+    else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
+    const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
+    const openPass = await decodePass(o.openVideoPath, openInfo, decodingFor(openInfo, o.transfer ? { transfer: o.transfer } : {}), openRegions, null);
+    const vals: number[] = [];
+    for (let f = 0; f < openPass.frames; f++) {
+      let bg = 0;
+      if (o.darkRoi) bg = openPass.regionMeans[1]![f]!;
+      else if (haveSurround) {
+        bg = sw[1]! * openPass.regionMeans[1]![f]! + sw[2]! * openPass.regionMeans[2]![f]! + sw[3]! * openPass.regionMeans[3]![f]!;
+      }
+      vals.push(openPass.regionMeans[0]![f]! - bg);
+    }
+    openLevel = median(vals);
+  }
+
+  // ---- sync ----
+  const usableForSync = new Uint8Array(nFrames);
+  for (let f = 0; f < nFrames; f++) usableForSync[f] = excluded[f] ? 0 : 1;
+  let offsetS: number;
+  let sync: RunResult['sync'];
+  let vpiHint: number | undefined;
+  if (o.offsetS !== undefined) {
+    offsetS = o.offsetS;
+    sync = { manual: true, offsetS, sharpnessS: null, ambiguous: false, curve: { offsetS: [], score: [] } };
+  } else {
+    const s = findSyncOffset({ frameTimesS: times, intensity, logTimeS: log.timeS, logVoltageV: log.voltageV, usable: usableForSync });
+    offsetS = s.offsetS;
+    vpiHint = s.vpiGuessV;
+    sync = { manual: false, offsetS, sharpnessS: s.sharpnessS ?? null, ambiguous: s.ambiguous, curve: s.curve };
+    if (s.ambiguous) {
+      warn('sync-ambiguous', `several clock offsets fit nearly equally (best ${offsetS.toFixed(3)} s${s.runnerUp ? `, next ${s.runnerUp.offsetS.toFixed(3)} s` : ''}); the drive is too periodic to tell them apart. Check the offset or give --offset-s`, 'sync');
+    }
+  }
+
+  // ---- voltage at each frame ----
+  const query = new Float64Array(nFrames);
+  for (let f = 0; f < nFrames; f++) query[f] = times[f]! - offsetS;
+  const voltage = interpolateAt(log.timeS, log.voltageV, query);
+  let inLog = 0;
+  for (let f = 0; f < nFrames; f++) {
+    if (!Number.isFinite(voltage[f]!)) { if (!excluded[f]) excluded[f] = 'outside-log'; } else inLog++;
+  }
+  if (inLog < 10) {
+    throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frames with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
+  }
+
+  // ---- fit ----
+  const useIdx: number[] = [];
+  for (let f = 0; f < nFrames; f++) if (!excluded[f]) useIdx.push(f);
+  const vFit = Float64Array.from(useIdx, (f) => voltage[f]!);
+  const iFit = Float64Array.from(useIdx, (f) => intensity[f]!);
+  let vSpread = 0;
+  for (const v of vFit) vSpread = Math.max(vSpread, Math.abs(v));
+  if (vSpread < 0.02 * vAbsMax || vSpread === 0) {
+    throw new KerrError('NOT_IDENTIFIABLE', 'the voltage stays at zero in the frames that overlap the video', { path: '--volts', hint: 'Record a sweep while filming, or check --offset-s' });
+  }
+  const lengthM = o.lengthMm * MM;
+  const effectiveLengthM = (o.effectiveLengthMm ?? o.lengthMm) * MM;
+  const gapM = o.gapMm * MM;
+  const polariserAngleDeg = o.polariserAngleDeg ?? 45;
+  const fitInput = {
+    effectiveLengthM, gapM, polariserAngleDeg,
+    ...(o.staticRetardanceRad !== undefined ? { staticRetardanceRad: o.staticRetardanceRad } : {}),
+    ...(openLevel !== undefined ? { openLevel } : {}),
+    ...(vpiHint !== undefined ? { halfWaveGuessesV: [vpiHint] } : {}),
+    robust: o.robust !== false,
+  };
+  const sigmaAll = interpolationUncertaintyV(log.timeS, log.voltageV, query, voltageNoiseV(log.voltageV));
+  const sFit = Float64Array.from(useIdx, (f) => sigmaAll[f]!);
+  let fit = fitKerrCurve({ voltageV: vFit, intensity: iFit, voltageSigmaV: sFit, ...fitInput });
+  // Particle spikes: short positive runs of standardised residuals, in time order; left out and refitted.
+  const spikes = detectSpikes(fit.standardizedResiduals);
+  if (spikes.events > 0) {
+    const keep: number[] = [];
+    for (let k = 0; k < useIdx.length; k++) {
+      const f = useIdx[k]!;
+      if (spikes.flags[k]) {
+        excluded[f] = 'particle';
+        events.push({ kind: 'particle', frameIndex: f, timeS: times[f]!, size: fit.standardizedResiduals[k]! });
+      } else keep.push(k);
+    }
+    fit = fitKerrCurve({
+      voltageV: Float64Array.from(keep, (k) => vFit[k]!), intensity: Float64Array.from(keep, (k) => iFit[k]!),
+      voltageSigmaV: Float64Array.from(keep, (k) => sFit[k]!), ...fitInput,
+    });
+    useIdx.splice(0, useIdx.length, ...keep.map((k) => useIdx[k]!));
+  }
+  const vUsed = Float64Array.from(useIdx, (f) => voltage[f]!);
+  const iUsed = Float64Array.from(useIdx, (f) => intensity[f]!);
+  if (!fit.identifiable) {
+    warn('not-identifiable', `the sweep reaches only about ${(fit.maxVoltageOverHalfWave * 100).toFixed(0)}% of the half-wave voltage, so brightness and half-wave voltage trade off (correlation ${fit.ampVpiCorrelation.toFixed(3)}, relative error of B ${(fit.relStdErrB * 100).toFixed(0)}%). Record an open level (analyser parallel, no field: --open-window, --open-video or --open-level) or sweep higher if the cell allows it safely`, 'open-level');
+  }
+  if (!fit.converged) warn('fit-not-converged', `the fit stopped without converging (${fit.reason})`);
+
+  // ---- derived figures ----
+  const amp = fit.amplitude;
+  const floor = fit.floorLevel;
+  const floorFraction = amp.value > 0
+    ? quantity(floor.value / amp.value, Math.abs(floor.value / amp.value) * Math.hypot((floor.stdErr ?? 0) / (floor.value || 1), (amp.stdErr ?? 0) / amp.value))
+    : quantity(NaN);
+  let vMinUsed = Infinity, vMaxUsed = 0;
+  for (const v of vUsed) { vMinUsed = Math.min(vMinUsed, Math.abs(v)); vMaxUsed = Math.max(vMaxUsed, Math.abs(v)); }
+  let hi = -Infinity, lo = Infinity;
+  for (let k = 0; k <= 400; k++) {
+    const v = vMinUsed + ((vMaxUsed - vMinUsed) * k) / 400;
+    const m = fit.predict(v);
+    hi = Math.max(hi, m); lo = Math.min(lo, m);
+  }
+  const contrastRatio = quantity(lo > 0 ? hi / lo : Infinity);
+  if (!(lo > 0)) warn('floor-not-positive', 'the fitted floor is at or below the surround level, so the contrast ratio is unbounded; check the dark and beam regions', 'camera-still');
+
+  // linearised reduction on the first branch
+  let linearised: RunResult['linearised'] = null;
+  try {
+    const tFirst: number[] = [], vFirst: number[] = [];
+    const angleFactor = Math.sin((2 * polariserAngleDeg * Math.PI) / 180) ** 2;
+    for (let k = 0; k < vUsed.length; k++) {
+      if (fit.outliers[k]) continue;
+      if (Math.abs(vUsed[k]!) >= fit.halfWaveVoltage.value) continue;
+      tFirst.push((iUsed[k]! - floor.value) / (amp.value * angleFactor));
+      vFirst.push(vUsed[k]!);
+    }
+    if (tFirst.length >= 5) {
+      const lin = linearisedKerr({ voltageV: Float64Array.from(vFirst), transmission: Float64Array.from(tFirst), gapM, lengthM: effectiveLengthM });
+      const b1 = fit.kerrConstant, b2 = lin.kerrConstant;
+      const z = (b2.value - b1.value) / Math.hypot(b1.stdErr ?? 0, b2.stdErr ?? 0);
+      linearised = { kerrConstant: b2, points: lin.points, agreesWithFit: Math.abs(z) < 3, zScore: z };
+      if (Math.abs(z) >= 3 && Math.abs(b2.value / b1.value - 1) > 0.02 && fit.identifiable) warn('linearised-disagrees', `the linearised reduction gives B = ${b2.value.toExponential(3)} m/V^2, ${Math.abs(z).toFixed(1)} standard errors from the fit; check for drift, hysteresis or a wrong floor`);
+    }
+  } catch {
+    linearised = null;
+  }
+
+  // ---- trace and modulation term ----
+  const trace: TraceRow[] = [];
+  const modulation = new Float64Array(nFrames);
+  const used = new Uint8Array(nFrames);
+  const vpi = fit.halfWaveVoltage.value;
+  const staticHalf = (o.staticRetardanceRad ?? 0) / 2;
+  const angleFactor = Math.sin((2 * polariserAngleDeg * Math.PI) / 180) ** 2;
+  const excludedCounts: Record<string, number> = {};
+  for (let f = 0; f < nFrames; f++) {
+    const v = voltage[f]!;
+    const has = Number.isFinite(v);
+    const model = has ? fit.predict(v) : null;
+    modulation[f] = has ? angleFactor * Math.sin((Math.PI / 2) * (v / vpi) ** 2 + staticHalf) ** 2 : NaN;
+    used[f] = excluded[f] ? 0 : 1;
+    if (excluded[f]) excludedCounts[excluded[f]!] = (excludedCounts[excluded[f]!] ?? 0) + 1;
+    trace.push({
+      frameIndex: f, timeS: times[f]!, voltageV: has ? v : null, intensity: intensity[f]!, model,
+      residual: model === null ? null : intensity[f]! - model, used: !excluded[f], excludedReason: excluded[f] ?? null,
+    });
+  }
+  const usedCount = nFrames - Object.values(excludedCounts).reduce((a, b) => a + b, 0);
+
+  const temperature = log.temperatureC ? meanSd(log.temperatureC) : null;
+  const vpiQ: Quantity = fit.halfWaveVoltage;
+  const result: RunResult = {
+    schemaVersion: RESULT_SCHEMA_VERSION,
+    kind: 'kerrtrace-run',
+    label: o.label ?? basename(o.videoPath),
+    createdAt: new Date().toISOString(),
+    source: 'video',
+    tool: { name: 'kerrtrace', version: hooks.toolVersion, ffmpegVersion: hooks.ffmpegVersion, node: process.version },
+    inputs: {},
+    options: { ...o },
+    cell: { lengthM, effectiveLengthM, gapM, polariserAngleDeg, electrodeHeightM: o.electrodeHeightMm !== undefined ? o.electrodeHeightMm * MM : null, wavelengthNm: null },
+    camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range },
+    regions: {
+      beam: beamRect, beamAuto,
+      ...(o.darkRoi ? { dark: o.darkRoi } : {}),
+      ...(!o.darkRoi && haveSurround && geom ? { surround: geom.b1 } : {}),
+      ...(o.referenceRoi ? { reference: o.referenceRoi } : {}),
+    },
+    kerrConstant: fit.kerrConstant,
+    halfWaveVoltage: vpiQ,
+    quarterWaveVoltage: quantity(vpiQ.value / Math.SQRT2, (vpiQ.stdErr ?? NaN) / Math.SQRT2, 'V'),
+    syncOffset: quantity(offsetS, sync.sharpnessS ?? undefined, 's'),
+    floorFraction,
+    contrastRatio,
+    identifiable: fit.identifiable,
+    identifiability: { ampVpiCorrelation: fit.ampVpiCorrelation, relStdErrB: fit.relStdErrB, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave, openLevelUsed: openLevel !== undefined },
+    model: {
+      darkLevel: 0, floorLevel: floor, amplitude: amp, kerrConstant: fit.kerrConstant, effectiveLengthM, gapM, polariserAngleDeg,
+      staticRetardanceRad: o.staticRetardanceRad ?? 0,
+    },
+    fit: { converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom, starts: fit.starts, robust: o.robust === false ? 'none' : 'huber' },
+    linearised,
+    sync,
+    frames: { total: nFrames, used: usedCount, excluded: excludedCounts },
+    events: events.sort((a, b) => a.frameIndex - b.frameIndex),
+    log: { rows: log.rows, spanS: log.timeS[log.rows - 1]! - log.timeS[0]!, currentColumn: log.currentA !== null, temperatureC: temperature },
+    warnings: [...log.warnings.map((m) => ({ code: 'voltage-log', message: m })), ...warnings],
+    files: {},
+  };
+  return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding };
+}
+
+function meanSd(a: Float64Array): Quantity {
+  let s = 0;
+  for (const x of a) s += x;
+  const m = s / a.length;
+  let v = 0;
+  for (const x of a) v += (x - m) ** 2;
+  return quantity(m, a.length > 1 ? Math.sqrt(v / (a.length - 1)) : undefined, '°C');
+}

@@ -1,0 +1,283 @@
+/**
+ * The Kerr fit: intensity against voltage through crossed polarisers.
+ *
+ * Model (dark already subtracted):
+ *   I(V) = I_floor + I_amp·sin²(2θ)·sin²(δ/2),  δ = π·(V/V_π)² + δ_static
+ * which is the Jones-calculus transmission of a retarder between crossed polarisers with
+ * δ = 2π·B·L_eff·V²/d² (so V_π = d/√(2·B·L_eff)). The fit is parametrised by V_π, which is
+ * better conditioned than B; B and its standard error follow by propagation:
+ *   B = d²/(2·L_eff·V_π²),  σ_B/B = 2·σ_Vπ/V_π.
+ *
+ * Several V_π starts (log-spaced, plus any caller hint) keep the fit off wrong branches of sin²;
+ * the best converged start is refined with Huber weights (iteratively reweighted). When the
+ * amplitude is known from an open measurement it is held fixed, which removes the amplitude/V_π
+ * trade-off of low sweeps. Identifiability is judged from the fit itself: the amplitude–V_π
+ * correlation and B's relative standard error.
+ *
+ * Pure: no I/O. Throws KerrError FIT_FAILED when no start converges, NOT_IDENTIFIABLE callers
+ * decide (the result carries `identifiable`).
+ */
+import { KerrError } from '../errors.js';
+import { quantity, type Quantity } from '../quantity.js';
+import { levenbergMarquardt, type CurveModel, type LmResult } from '../core/fit/levenbergMarquardt.js';
+import { fitRobust } from '../core/fit/robustFit.js';
+
+export interface KerrCurveInput {
+  voltageV: Float64Array;
+  intensity: Float64Array;
+  effectiveLengthM: number;
+  gapM: number;
+  polariserAngleDeg: number;
+  staticRetardanceRad?: number;
+  /** Known modulation amplitude I_amp (same units as intensity), e.g. from an open measurement. */
+  openLevel?: number;
+  /** Extra V_π start guesses (V), e.g. from the sync search. */
+  halfWaveGuessesV?: number[];
+  robust?: boolean;
+  /** Standard uncertainty of each point's voltage (V); adds (dI/dV·σ_V)² to that point's variance. */
+  voltageSigmaV?: Float64Array;
+}
+
+export interface KerrCurveFit {
+  floorLevel: Quantity;
+  amplitude: Quantity;
+  halfWaveVoltage: Quantity; // V
+  kerrConstant: Quantity; // m/V^2
+  ampVpiCorrelation: number;
+  relStdErrB: number;
+  identifiable: boolean;
+  maxVoltageOverHalfWave: number;
+  converged: boolean;
+  iterations: number;
+  reason: string;
+  residualRms: number;
+  degreesOfFreedom: number;
+  starts: number;
+  /** Huber weights of the final fit (1 = full weight) and outlier flags, per input point. */
+  weights: Float64Array;
+  outliers: Uint8Array;
+  /** Residual over its expected standard deviation (effective-variance weighting), per input point. */
+  standardizedResiduals: Float64Array;
+  /** Standard deviation of the intensity noise alone (same units as intensity). */
+  intensityNoise: number;
+  /** Evaluate the fitted model at a voltage. */
+  predict(voltageV: number): number;
+}
+
+const DEG = Math.PI / 180;
+
+/** sin²(2θ) factor and static retardance folded into a model with parameters [floor, amp, vpi] or [floor, vpi]. */
+function makeModel(angleFactor: number, staticRad: number, fixedAmp: number | null): CurveModel {
+  const halfStatic = staticRad / 2;
+  if (fixedAmp === null) {
+    return {
+      nParams: 3,
+      value(p, v) {
+        const u = (Math.PI / 2) * (v / p[2]!) * (v / p[2]!) + halfStatic;
+        const s = Math.sin(u);
+        return p[0]! + p[1]! * angleFactor * s * s;
+      },
+      gradient(p, v, out) {
+        const vpi = p[2]!;
+        const u = (Math.PI / 2) * (v / vpi) * (v / vpi) + halfStatic;
+        const s = Math.sin(u);
+        const c = Math.cos(u);
+        out[0] = 1;
+        out[1] = angleFactor * s * s;
+        // du/dVπ = −π·V²/Vπ³
+        out[2] = p[1]! * angleFactor * 2 * s * c * (-Math.PI * v * v / (vpi * vpi * vpi));
+      },
+    };
+  }
+  return {
+    nParams: 2,
+    value(p, v) {
+      const u = (Math.PI / 2) * (v / p[1]!) * (v / p[1]!) + halfStatic;
+      const s = Math.sin(u);
+      return p[0]! + fixedAmp * angleFactor * s * s;
+    },
+    gradient(p, v, out) {
+      const vpi = p[1]!;
+      const u = (Math.PI / 2) * (v / vpi) * (v / vpi) + halfStatic;
+      const s = Math.sin(u);
+      const c = Math.cos(u);
+      out[0] = 1;
+      out[1] = fixedAmp * angleFactor * 2 * s * c * (-Math.PI * v * v / (vpi * vpi * vpi));
+    },
+  };
+}
+
+/** Closed-form least squares of y = a + b·x: returns [a, b] (b may be negative). */
+function lineFit(x: Float64Array, y: Float64Array): [number, number] {
+  let sx = 0, sy = 0, sxx = 0, sxy = 0;
+  const n = x.length;
+  for (let i = 0; i < n; i++) {
+    sx += x[i]!; sy += y[i]!; sxx += x[i]! * x[i]!; sxy += x[i]! * y[i]!;
+  }
+  const den = n * sxx - sx * sx;
+  if (den === 0) return [sy / n, 0];
+  const b = (n * sxy - sx * sy) / den;
+  return [(sy - b * sx) / n, b];
+}
+
+/**
+ * The intensity-noise variance s0² that makes the median of r_i²/(s0² + e_i) equal to 0.455, the
+ * median of a χ² variable with one degree of freedom (a robust, outlier-proof scale), by bisection.
+ */
+function intensityVariance(resid: Float64Array, extra: Float64Array): number {
+  const n = resid.length;
+  const r2 = Float64Array.from(resid, (r) => r * r);
+  const ratio = new Float64Array(n);
+  const medianRatio = (s0sq: number): number => {
+    for (let i = 0; i < n; i++) ratio[i] = r2[i]! / (s0sq + extra[i]! + 1e-300);
+    ratio.sort();
+    return ratio[n >> 1]!;
+  };
+  let hi = Math.max(1e-30, Float64Array.from(r2).sort()[n >> 1]! / 0.455);
+  let lo = 0;
+  if (medianRatio(1e-30) <= 0.455) return Math.max(1e-30, hi * 1e-6);
+  for (let k = 0; k < 60; k++) {
+    const mid = (lo + hi) / 2;
+    if (medianRatio(mid) > 0.455) lo = mid;
+    else hi = mid;
+  }
+  return Math.max(hi, 1e-30);
+}
+
+export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
+  const { voltageV, intensity, effectiveLengthM, gapM } = input;
+  const n = voltageV.length;
+  if (n !== intensity.length) throw new KerrError('INTERNAL', 'voltage and intensity series differ in length');
+  const angleFactor = Math.sin(2 * input.polariserAngleDeg * DEG) ** 2;
+  if (angleFactor < 1e-6) {
+    throw new KerrError('BAD_ARGUMENT', `a polariser angle of ${input.polariserAngleDeg}° to the field gives no modulation`, {
+      path: '--polariser-angle-deg',
+      hint: 'Set the polariser at 45° to the field (the usual arrangement) or give the angle you used',
+    });
+  }
+  const staticRad = input.staticRetardanceRad ?? 0;
+  const fixedAmp = input.openLevel !== undefined ? input.openLevel : null;
+  const nParams = fixedAmp === null ? 3 : 2;
+  if (n <= nParams + 2) {
+    throw new KerrError('FIT_FAILED', `only ${n} usable frames for the Kerr fit`, {
+      hint: 'Check that the voltage log overlaps the video and that the beam region is right',
+    });
+  }
+  let vMax = 0;
+  for (let i = 0; i < n; i++) vMax = Math.max(vMax, Math.abs(voltageV[i]!));
+  if (!(vMax > 0)) {
+    throw new KerrError('NOT_IDENTIFIABLE', 'the voltage never leaves zero in the frames used', {
+      hint: 'Record a sweep that reaches a good fraction of the half-wave voltage',
+    });
+  }
+  const model = makeModel(angleFactor, staticRad, fixedAmp);
+
+  // Start guesses for V_π: log-spaced from 0.35·Vmax to 6·Vmax, plus hints.
+  const guesses: number[] = [];
+  for (let k = 0; k < 10; k++) guesses.push(vMax * 0.35 * Math.pow(6 / 0.35, k / 9));
+  for (const g of input.halfWaveGuessesV ?? []) if (Number.isFinite(g) && g > 0) guesses.push(g);
+
+  const upper = fixedAmp === null ? [Infinity, Infinity, 60 * vMax] : [Infinity, 60 * vMax];
+  const lower = fixedAmp === null ? [-Infinity, 0, 0.05 * vMax] : [-Infinity, 0.05 * vMax];
+
+  const basis = new Float64Array(n);
+  let best: { res: LmResult; start: number[] } | null = null;
+  for (const vpi of guesses) {
+    for (let i = 0; i < n; i++) {
+      const s = Math.sin((Math.PI / 2) * (voltageV[i]! / vpi) ** 2 + staticRad / 2);
+      basis[i] = angleFactor * s * s;
+    }
+    let start: number[];
+    if (fixedAmp === null) {
+      const [a, b] = lineFit(basis, intensity);
+      start = [a, Math.max(b, 1e-9), vpi];
+    } else {
+      let r = 0;
+      for (let i = 0; i < n; i++) r += intensity[i]! - fixedAmp * basis[i]!;
+      start = [r / n, vpi];
+    }
+    const res = levenbergMarquardt(model, voltageV, intensity, start, { lower, upper, maxIterations: 200 });
+    if (!Number.isFinite(res.rss)) continue;
+    if (best === null || (res.converged && !best.res.converged) || (res.converged === best.res.converged && res.rss < best.res.rss)) {
+      best = { res, start: Array.from(res.params) };
+    }
+  }
+  if (best === null) {
+    throw new KerrError('FIT_FAILED', 'the Kerr fit did not converge from any start', {
+      hint: 'Check the beam region (--roi) and the voltage log; see docs/recording-a-run.md',
+    });
+  }
+
+  // Effective-variance weights: var_i = s0² + (dI/dV_i·σ_V)² (errors in the voltage become
+  // intensity errors through the curve's slope; Orear, Am. J. Phys. 50, 912 (1982)).
+  const sigmaV = input.voltageSigmaV;
+  if (sigmaV && sigmaV.length !== n) throw new KerrError('INTERNAL', 'voltage uncertainty series differs in length');
+  const slope2 = new Float64Array(n);
+  const p0 = Float64Array.from(best.start);
+  const resid0 = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = voltageV[i]!;
+    const h = Math.max(1e-6 * vMax, 1e-3 * Math.abs(v));
+    const dIdV = (model.value(p0, v + h) - model.value(p0, v - h)) / (2 * h);
+    const sv = sigmaV ? sigmaV[i]! : 0;
+    slope2[i] = dIdV * dIdV * sv * sv;
+    resid0[i] = intensity[i]! - model.value(p0, v);
+  }
+  const s0sq = intensityVariance(resid0, slope2);
+  const baseWeights = new Float64Array(n);
+  for (let i = 0; i < n; i++) baseWeights[i] = s0sq / (s0sq + slope2[i]!);
+
+  let final: LmResult = best.res;
+  let weights: Float64Array = new Float64Array(n).fill(1);
+  let outliers: Uint8Array = new Uint8Array(n);
+  if (input.robust !== false) {
+    const robust = fitRobust(model, voltageV, intensity, best.start, { lower, upper, maxIterations: 200, weights: baseWeights });
+    if (Number.isFinite(robust.rss)) {
+      final = robust;
+      weights = robust.weights;
+      outliers = robust.outliers;
+    }
+  }
+
+  const p = final.params;
+  const vpiIdx = nParams - 1;
+  const vpi = p[vpiIdx]!;
+  const vpiErr = final.stdErr[vpiIdx]!;
+  const b = (gapM * gapM) / (2 * effectiveLengthM * vpi * vpi);
+  const relStdErrB = (2 * vpiErr) / vpi;
+  const corr = fixedAmp === null ? final.correlation(1, 2) : 0;
+  const atBound = vpi >= 0.999 * 60 * vMax;
+  const identifiable = !atBound && Number.isFinite(relStdErrB) && relStdErrB < 0.25 && !(Math.abs(corr) > 0.98 && relStdErrB > 0.05);
+
+  // residual RMS over all points (unweighted) and standardised residuals
+  let ss = 0;
+  const standardizedResiduals = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const r = intensity[i]! - model.value(p, voltageV[i]!);
+    ss += r * r;
+    standardizedResiduals[i] = r / Math.sqrt(s0sq + slope2[i]!);
+  }
+  const floorLevel = quantity(p[0]!, final.stdErr[0], 'linear');
+  const amplitude = fixedAmp === null ? quantity(p[1]!, final.stdErr[1], 'linear') : quantity(fixedAmp, undefined, 'linear');
+  return {
+    floorLevel,
+    amplitude,
+    halfWaveVoltage: quantity(vpi, vpiErr, 'V'),
+    kerrConstant: quantity(b, b * relStdErrB, 'm/V^2'),
+    ampVpiCorrelation: corr,
+    relStdErrB,
+    identifiable,
+    maxVoltageOverHalfWave: vMax / vpi,
+    converged: final.converged,
+    iterations: final.iterations,
+    reason: final.reason,
+    residualRms: Math.sqrt(ss / n),
+    degreesOfFreedom: final.dof,
+    starts: guesses.length,
+    weights,
+    outliers,
+    standardizedResiduals,
+    intensityNoise: Math.sqrt(s0sq),
+    predict: (v: number) => model.value(p, v),
+  };
+}
