@@ -396,6 +396,7 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   let offsetS: number;
   let sync: RunResult['sync'];
   let vpiHint: number | undefined;
+  let offsetStdErrS: number | undefined;
   if (o.offsetS !== undefined) {
     offsetS = o.offsetS;
     sync = { manual: true, offsetS, sharpnessS: null, ambiguous: false, curve: { offsetS: [], score: [] } };
@@ -404,9 +405,8 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     offsetS = s.offsetS;
     vpiHint = s.vpiGuessV;
     sync = { manual: false, offsetS, sharpnessS: s.sharpnessS ?? null, ambiguous: s.ambiguous, curve: s.curve };
-    if (s.ambiguous) {
-      warn('sync-ambiguous', `several clock offsets fit nearly equally (best ${offsetS.toFixed(3)} s${s.runnerUp ? `, next ${s.runnerUp.offsetS.toFixed(3)} s` : ''}); the drive is too periodic to tell them apart. Check the offset or give --offset-s`, 'sync');
-    }
+    offsetStdErrS = s.offsetStdErrS ?? undefined;
+    for (const m of s.warnings) warn(s.ambiguous && /equally/.test(m) ? 'sync-ambiguous' : 'sync', m, 'sync');
   }
 
   // ---- voltage at each frame ----
@@ -552,7 +552,7 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     kerrConstant: fit.kerrConstant,
     halfWaveVoltage: vpiQ,
     quarterWaveVoltage: quantity(vpiQ.value / Math.SQRT2, (vpiQ.stdErr ?? NaN) / Math.SQRT2, 'V'),
-    syncOffset: quantity(offsetS, sync.sharpnessS ?? undefined, 's'),
+    syncOffset: quantity(offsetS, offsetStdErrS, 's'),
     floorFraction,
     contrastRatio,
     identifiable: fit.identifiable,

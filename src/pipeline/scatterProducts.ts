@@ -202,7 +202,8 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
       staticRetardanceRad: result.model.staticRetardanceRad,
       openLevel: fit.amplitude.value,
       halfWaveGuessesV: [fit.halfWaveVoltage.value],
-      robust: result.fit.robust !== 'none',
+      // outliers and events are already left out (`clean`); plain least squares keeps this quick
+      robust: false,
     }),
   });
   const hysteresisDetail = { framesUp: hyst.framesUp, framesDown: hyst.framesDown, framesHeld: hyst.framesHeld, ...(hyst.note ? { note: hyst.note } : {}) };

@@ -96,7 +96,7 @@ export interface RunResult {
   sync: {
     manual: boolean;
     offsetS: number;
-    /** Curvature-based 1-sigma width of the optimum, s. */
+    /** Width of the optimum: mean distance either side at which the agreement (R²) drops by 0.01, s. */
     sharpnessS: number | null;
     ambiguous: boolean;
     /** Agreement (e.g. R² of the model) against trial offset, for the report's sync plot. */
