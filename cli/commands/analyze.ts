@@ -6,7 +6,9 @@ import { action } from '../action.js';
 import { KerrError, invalid } from '../../src/errors.js';
 import { formatQuantity } from '../../src/quantity.js';
 import { parseRect } from '../../src/measure/rect.js';
-import { analyzeRun, checkAnalyzeOptions, defaultOutDir, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { checkAnalyzeOptions, defaultOutDir, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { analyzeWithProducts } from '../../src/pipeline/analyzeWithProducts.js';
+import { readRunResult } from '../../src/compare/readRunResult.js';
 import { checkOutputDir } from '../../src/io/outputDir.js';
 import { finishRun } from '../../src/pipeline/finishRun.js';
 import type { TransferName } from '../../src/media/types.js';
@@ -36,7 +38,7 @@ export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
   offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
   polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
-  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string;
 }
 
 export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
@@ -90,6 +92,8 @@ export function register(program: Command): void {
     .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
     .option('--label <text>', 'a name for this run in reports and comparisons')
     .option('--no-robust', 'plain least squares instead of Huber weighting')
+    .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')
+    .option('--no-maps', 'skip the static/modulated maps and scatter figures')
     .option('--no-report', 'skip report.html, plots and summary.md')
     .option('--json', 'print result.json instead of the summary')
     .option('--quiet', 'no progress bar')
@@ -100,13 +104,22 @@ export function register(program: Command): void {
       checkOutputDir(outDir, c.force === true, [video, o.voltsPath]);
       const progress = makeProgress('decoding', c.quiet === true || c.json === true);
       const versions = toolVersionInfo();
-      let out;
+      const baseline = c.baseline ? await readRunResult(c.baseline) : undefined;
+      let run;
       try {
-        out = await analyzeRun(o, { ...versions, onProgress: (_s, d, t) => progress.update(d, t) });
+        run = await analyzeWithProducts(o, { ...versions, onProgress: (_s, d, t) => progress.update(d, t) }, {
+          ...(baseline ? { baseline: baseline.result } : {}),
+          products: c.maps !== false,
+        });
       } finally {
         progress.stop();
       }
-      const written = await finishRun(out, { outDir, force: c.force === true, report: c.report !== false });
+      const { out, products } = run;
+      if (baseline) out.result.inputs.baseline = baseline.source;
+      const written = await finishRun(out, {
+        outDir, force: c.force === true, report: c.report !== false,
+        ...(products ? { extraFiles: products.files, images: products.images } : {}),
+      });
       if (c.json) {
         process.stdout.write(`${JSON.stringify(out.result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
       } else {

@@ -1,6 +1,125 @@
+/**
+ * `kerrtrace trace VIDEO --roi x,y,w,h [--roi ...] [--dark-roi x,y,w,h] [--reference-roi x,y,w,h]
+ *  [--transfer srgb|bt709|gamma:G|linear] [--out FILE.csv] [--force] [--quiet]`
+ *
+ * Per-frame linear brightness of each region as CSV (columns in docs/trace-csv.md), to stdout or to
+ * a file. Every argument is checked, and the output is checked not to overwrite anything, before
+ * the video is decoded; the file is written to a temporary name and renamed at the end, so a failed
+ * run leaves nothing behind.
+ */
 import type { Command } from 'commander';
+import { existsSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
+import { action } from '../action.js';
+import { makeProgress } from '../progress.js';
+import { KerrError } from '../../src/errors.js';
+import { parseTransfer } from '../../src/core/camera/transfer.js';
+import { probeMedia } from '../../src/media/probe.js';
+import type { Rect } from '../../src/media/types.js';
+import { parseRect, validateRect } from '../../src/measure/rect.js';
+import { traceVideo, type TraceOptions } from '../../src/pipeline/trace.js';
+import { regionTraceCsv } from '../../src/pipeline/regionTraceCsv.js';
 
-/** Registers the `trace` command (not yet built). */
+interface TraceCliOptions {
+  roi?: string[];
+  darkRoi?: string;
+  referenceRoi?: string;
+  transfer?: string;
+  out?: string;
+  force?: boolean;
+  quiet?: boolean;
+}
+
+const collect = (value: string, previous: string[] | undefined): string[] => [...(previous ?? []), value];
+
+/** Refuses, before any work, an output that exists (without --force), is the input, or has no folder. */
+export function checkOutputFile(out: string, force: boolean, inputs: string[]): void {
+  const target = resolve(out);
+  if (inputs.some((i) => resolve(i) === target)) {
+    throw new KerrError('FILE_EXISTS', `the output ${out} is the input video`, { path: '--out', hint: 'Give another file name with --out' });
+  }
+  const folder = dirname(target);
+  if (!existsSync(folder) || !statSync(folder).isDirectory()) {
+    throw new KerrError('BAD_ARGUMENT', `the folder for --out ${out} does not exist`, { path: '--out', hint: `Create ${dirname(out)} first or choose another path` });
+  }
+  if (existsSync(target)) {
+    if (statSync(target).isDirectory()) {
+      throw new KerrError('BAD_ARGUMENT', `--out ${out} is a folder`, { path: '--out', hint: 'Give a file name such as trace.csv' });
+    }
+    if (!force) {
+      throw new KerrError('FILE_EXISTS', `${out} already exists and would be overwritten`, { path: '--out', hint: 'Choose another name with --out, or add --force to replace it' });
+    }
+  }
+}
+
+/** Writes text to a temporary file beside the target, then renames it into place. */
+export function writeFileAtomic(out: string, text: string, force: boolean): void {
+  const target = resolve(out);
+  const temp = join(dirname(target), `.${basename(target)}.partial-${process.pid}-${Date.now()}`);
+  try {
+    writeFileSync(temp, text);
+    if (existsSync(target) && !force) {
+      throw new KerrError('FILE_EXISTS', `${out} appeared while the trace was running`, { path: '--out', hint: 'Run again with another --out or with --force' });
+    }
+    renameSync(temp, target);
+  } catch (e) {
+    rmSync(temp, { force: true });
+    throw e;
+  }
+}
+
 export function register(program: Command): void {
-  void program;
+  program
+    .command('trace')
+    .description('per-frame linear brightness of one or more regions of a video, as CSV')
+    .argument('<video>', 'video file from the camera')
+    .option('--roi <x,y,w,h>', 'region to trace, in displayed pixels (repeat for more regions)', collect)
+    .option('--dark-roi <x,y,w,h>', 'region with no beam; its level is subtracted from every region')
+    .option('--reference-roi <x,y,w,h>', 'region of constant true brightness (grey card) used to correct exposure changes')
+    .option('--transfer <curve>', 'camera transfer curve: srgb, bt709, gamma:G or linear (default: from the video\'s tags)')
+    .option('--out <file.csv>', 'write the CSV to this file instead of standard output')
+    .option('--force', 'replace --out if it exists')
+    .option('--quiet', 'no progress bar and no notes')
+    .action(action(async (video: string, c: TraceCliOptions) => {
+      if (c.roi === undefined || c.roi.length === 0) {
+        throw new KerrError('BAD_ARGUMENT', 'no region to trace', { path: '--roi', hint: 'Give at least one --roi x,y,w,h (see `kerrtrace inspect` for the frame size)' });
+      }
+      const regions: Rect[] = (c.roi ?? []).map((r) => parseRect(r, '--roi'));
+      const dark = c.darkRoi !== undefined ? parseRect(c.darkRoi, '--dark-roi') : undefined;
+      const reference = c.referenceRoi !== undefined ? parseRect(c.referenceRoi, '--reference-roi') : undefined;
+      const transfer = c.transfer !== undefined ? parseTransfer(c.transfer, '--transfer') : undefined;
+      if (c.out !== undefined) checkOutputFile(c.out, c.force === true, [video]);
+
+      const probe = await probeMedia(video);
+      const { width, height } = probe.info;
+      regions.forEach((r, k) => validateRect(r, width, height, regions.length > 1 ? `--roi #${k + 1}` : '--roi'));
+      if (dark) validateRect(dark, width, height, '--dark-roi');
+      if (reference) validateRect(reference, width, height, '--reference-roi');
+
+      const quiet = c.quiet === true;
+      const progress = makeProgress('tracing', quiet);
+      const opts: TraceOptions = { regions, probe, onProgress: (d, t) => progress.update(d, t) };
+      if (dark) opts.dark = dark;
+      if (reference) opts.reference = reference;
+      if (transfer) opts.decoding = { transfer };
+      let trace;
+      try {
+        trace = await traceVideo(video, opts);
+      } finally {
+        progress.stop();
+      }
+      const csv = regionTraceCsv(trace);
+      if (c.out !== undefined) {
+        writeFileAtomic(c.out, csv, c.force === true);
+      } else {
+        process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code !== 'EPIPE') throw e; });
+        process.stdout.write(csv);
+      }
+      if (!quiet) {
+        for (const note of trace.notes) process.stderr.write(`kerrtrace: note: ${note}\n`);
+        if (c.out !== undefined) {
+          process.stderr.write(`kerrtrace: wrote ${trace.frames} frames x ${regions.length} region${regions.length > 1 ? 's' : ''} to ${c.out} (${trace.decoding.transfer} transfer, ${trace.decoding.range} range)\n`);
+        }
+      }
+    }));
 }

@@ -29,7 +29,7 @@ import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectSpikes } from '../core/events/detectSpikes.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
 import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
-import { fitKerrCurve, type KerrCurveFit } from './fitKerrCurve.js';
+import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { linearisedKerr } from '../core/fit/linearisedKerr.js';
 import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
 
@@ -81,6 +81,11 @@ export interface AnalyzeOutput {
   fit: KerrCurveFit;
   info: VideoInfo;
   decoding: CameraDecoding;
+  /** Exposure gain per frame (1 without a reference region). */
+  gain: Float64Array;
+  log: VoltageLog;
+  /** The measured state, to fit again with more frames left out. */
+  measured: MeasuredRun;
 }
 
 const MM = 1e-3;
@@ -197,6 +202,11 @@ async function decodePass(path: string, info: VideoInfo, decoding: CameraDecodin
 }
 
 export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promise<AnalyzeOutput> {
+  return fitMeasuredRun(await measureRun(o, hooks));
+}
+
+/** Probe, decode once, find the beam and surround, correct exposure, detect sparks, sync. */
+export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promise<MeasuredRun> {
   checkAnalyzeOptions(o);
   const warnings: RunWarning[] = [];
   const warn = (code: string, message: string, guideSection?: string) => {
@@ -421,6 +431,57 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frames with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
   }
 
+  return {
+    o, hooks, info, decoding, log, grid, times, nFrames, intensity, gain, voltage, query, vAbsMax, openLevel,
+    offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround,
+    excluded: excluded.slice(), events: events.slice(), warnings: warnings.slice(),
+  };
+}
+
+/** Everything measured from the clip and the log before the fit; the fit can run on it more than once. */
+export interface MeasuredRun {
+  o: AnalyzeOptions;
+  hooks: AnalyzeHooks;
+  info: VideoInfo;
+  decoding: CameraDecoding;
+  log: VoltageLog;
+  grid: GridStore;
+  times: Float64Array;
+  nFrames: number;
+  /** Beam minus surround, divided by the exposure gain. */
+  intensity: Float64Array;
+  /** Exposure gain per frame (1 without a reference region). */
+  gain: Float64Array;
+  voltage: Float64Array;
+  query: Float64Array;
+  vAbsMax: number;
+  openLevel: number | undefined;
+  offsetS: number;
+  offsetStdErrS: number | undefined;
+  sync: RunResult['sync'];
+  vpiHint: number | undefined;
+  beamRect: Rect;
+  beamAuto: boolean;
+  geom: SurroundGeometry | undefined;
+  haveSurround: boolean;
+  excluded: (string | null)[];
+  events: RunEvent[];
+  warnings: RunWarning[];
+}
+
+/**
+ * The fit and everything derived from it, on a measured run. `extraExclusions` (frame index →
+ * reason, e.g. particle passages or exposure jumps found later) are left out as well.
+ */
+export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<number, string> = new Map(), extraEvents: RunEvent[] = []): AnalyzeOutput {
+  const { o, hooks, info, decoding, log, grid, times, nFrames, intensity, voltage, query, vAbsMax, openLevel, offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround } = m;
+  const excluded = m.excluded.slice();
+  for (const [f, why] of extraExclusions) if (!excluded[f]) excluded[f] = why;
+  const events = [...m.events, ...extraEvents];
+  const warnings = m.warnings.slice();
+  const warn = (code: string, message: string, guideSection?: string) => {
+    warnings.push(guideSection ? { code, message, guideSection } : { code, message });
+  };
   // ---- fit ----
   const useIdx: number[] = [];
   for (let f = 0; f < nFrames; f++) if (!excluded[f]) useIdx.push(f);
@@ -446,16 +507,15 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const sFit = Float64Array.from(useIdx, (f) => sigmaAll[f]!);
   let fit = fitKerrCurve({ voltageV: vFit, intensity: iFit, voltageSigmaV: sFit, ...fitInput });
   // Particle spikes: short positive runs of standardised residuals, in time order; left out and refitted.
-  const spikes = detectSpikes(fit.standardizedResiduals);
+  const spikes = detectSpikes(fit.standardizedResiduals, Float64Array.from(useIdx, (f) => times[f]!));
   if (spikes.events > 0) {
     const keep: number[] = [];
     for (let k = 0; k < useIdx.length; k++) {
       const f = useIdx[k]!;
-      if (spikes.flags[k]) {
-        excluded[f] = 'particle';
-        events.push({ kind: 'particle', frameIndex: f, timeS: times[f]!, size: fit.standardizedResiduals[k]! });
-      } else keep.push(k);
+      if (spikes.flags[k]) excluded[f] = 'particle';
+      else keep.push(k);
     }
+    for (const p of spikes.peaks) events.push({ kind: 'particle', frameIndex: useIdx[p.index]!, timeS: times[useIdx[p.index]!]!, size: p.z });
     fit = fitKerrCurve({
       voltageV: Float64Array.from(keep, (k) => vFit[k]!), intensity: Float64Array.from(keep, (k) => iFit[k]!),
       voltageSigmaV: Float64Array.from(keep, (k) => sFit[k]!), ...fitInput,
@@ -561,7 +621,7 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       darkLevel: 0, floorLevel: floor, amplitude: amp, kerrConstant: fit.kerrConstant, effectiveLengthM, gapM, polariserAngleDeg,
       staticRetardanceRad: o.staticRetardanceRad ?? 0,
     },
-    fit: { converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom, starts: fit.starts, robust: o.robust === false ? 'none' : 'huber' },
+    fit: { converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom, starts: fit.starts, robust: o.robust === false ? 'none' : 'huber', residualAutocorrelation: fit.residualAutocorrelation, errorInflation: fit.errorInflation },
     linearised,
     sync,
     frames: { total: nFrames, used: usedCount, excluded: excludedCounts },
@@ -570,7 +630,7 @@ export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     warnings: [...log.warnings.map((m) => ({ code: 'voltage-log', message: m })), ...warnings],
     files: {},
   };
-  return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding };
+  return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding, gain: m.gain, log, measured: m };
 }
 
 function meanSd(a: Float64Array): Quantity {

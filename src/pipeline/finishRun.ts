@@ -1,8 +1,9 @@
 /**
- * After the analysis: record the inputs' SHA-256, add the scatter products, and write the run
- * folder (result.json, trace.csv, maps, report) in one staged step.
+ * After the analysis: record the inputs' SHA-256 and write the run folder (result.json,
+ * trace.csv, extra files such as maps, and the report) in one staged step.
  */
 import { sha256File } from '../io/sha256File.js';
+import { writeRunReport, type RunReportInput } from '../report/writeRunReport.js';
 import { writeRunDir } from './writeRun.js';
 import type { AnalyzeOutput } from './analyze.js';
 
@@ -10,6 +11,8 @@ export interface FinishOptions {
   outDir: string;
   force: boolean;
   report: boolean;
+  extraFiles?: Record<string, Uint8Array | string>;
+  images?: RunReportInput['images'];
 }
 
 export async function finishRun(out: AnalyzeOutput, f: FinishOptions): Promise<string> {
@@ -17,5 +20,15 @@ export async function finishRun(out: AnalyzeOutput, f: FinishOptions): Promise<s
   out.result.inputs.video = { path: o.videoPath, sha256: await sha256File(o.videoPath) };
   out.result.inputs.volts = { path: o.voltsPath, sha256: await sha256File(o.voltsPath) };
   if (o.openVideoPath) out.result.inputs.openVideo = { path: o.openVideoPath, sha256: await sha256File(o.openVideoPath) };
-  return writeRunDir(f.outDir, f.force, { result: out.result, trace: out.trace });
+  return writeRunDir(f.outDir, f.force, {
+    result: out.result,
+    trace: out.trace,
+    ...(f.extraFiles ? { extraFiles: f.extraFiles } : {}),
+    ...(f.report
+      ? {
+          writeReports: async (dir, result) =>
+            (await writeRunReport(dir, { result, trace: out.trace, ...(f.images ? { images: f.images } : {}) })).files,
+        }
+      : {}),
+  });
 }

@@ -23,7 +23,7 @@ import type { RunEvent, RunResult, RunWarning } from '../result/schema.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { AnalyzeOutput } from './analyze.js';
-import { fitKerrCurve } from './fitKerrCurve.js';
+import { fitKerrCurve } from '../core/fit/fitKerrCurve.js';
 import { modulationMaps, type ModulationMaps } from '../core/scatter/modulationMaps.js';
 import { regionsFromMaps, type ScatterRegions } from '../core/scatter/regionsFromMaps.js';
 import { haloToCoreRatio } from '../core/scatter/haloToCoreRatio.js';
@@ -154,7 +154,8 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   const model = Float64Array.from(trace, (row) => (row.model === null ? NaN : row.model));
   const candidate = Uint8Array.from(trace, (row, f) =>
     row.voltageV !== null && (row.excludedReason === null || row.excludedReason === 'particle' || row.excludedReason === 'outlier') && !jumpFrame[f] ? 1 : 0);
-  const particles = detectParticleEvents({ intensity, model, candidate, timesS: times });
+  const logIntervalS = result.log.rows > 1 && result.log.spanS > 0 ? result.log.spanS / (result.log.rows - 1) : undefined;
+  const particles = detectParticleEvents({ intensity, model, candidate, timesS: times, ...(logIntervalS !== undefined ? { logIntervalS } : {}) });
 
   // ---- events and exclusions ----
   const extraEvents: RunEvent[] = [];
@@ -234,25 +235,34 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   }
 
   // ---- figures and files ----
+  // The frame with the most modulated light shows where the beam is.
+  let showFrame = -1;
+  for (let f = 0; f < frames; f++) if (usable[f] && Number.isFinite(modulation[f]!) && (showFrame < 0 || modulation[f]! > modulation[showFrame]!)) showFrame = f;
+  if (showFrame < 0) showFrame = frames >> 1;
+  const startS = Number.isFinite(out.info.startTimeS) ? out.info.startTimeS : 0;
+  // ffmpeg seeks and decodes while the maps are rendered.
+  // (Settled into a value at once, so a failure is never left as an unhandled rejection.)
+  const grabbed: Promise<{ png: Buffer } | { error: unknown }> = grabFramePng(opts.videoPath, Math.max(0, times[showFrame]! - startS))
+    .then((png) => ({ png }), (error: unknown) => ({ error }));
+
   const exposureNote = gain ? ', exposure-corrected' : '';
   const staticHigh = Math.max(percentile(maps.staticMap, 0.995), 1e-6);
   const staticLow = Math.min(0, percentile(maps.staticMap, 0.005));
-  const staticFig = await renderMapPng(maps.staticMap, gw, gh, {
+  const modHigh = Math.max(percentile(maps.modulatedMap, 1), 1e-6);
+  const modLow = Math.min(0, percentile(maps.modulatedMap, 0.005));
+  const [staticFig, modulatedFig] = await Promise.all([renderMapPng(maps.staticMap, gw, gh, {
     title: 'Static light: floor, scatter halo and ambient',
     unit: `intercept of the regression on the modulation term; linear units, 1 = full-scale white${exposureNote}`,
     stepPx: step,
     range: [staticLow, staticHigh > staticLow ? staticHigh : staticLow + 1e-6],
     note: `${maps.framesUsed} frames`,
-  });
-  const modHigh = Math.max(percentile(maps.modulatedMap, 1), 1e-6);
-  const modLow = Math.min(0, percentile(maps.modulatedMap, 0.005));
-  const modulatedFig = await renderMapPng(maps.modulatedMap, gw, gh, {
+  }), renderMapPng(maps.modulatedMap, gw, gh, {
     title: 'Modulated light: the Kerr-switched beam',
     unit: `slope of the regression on the modulation term (= modulation amplitude); linear units${exposureNote}`,
     stepPx: step,
     range: [modLow, modHigh > modLow ? modHigh : modLow + 1e-6],
     note: `${maps.framesUsed} frames`,
-  });
+  })]);
 
   const overlay: OverlayRegion[] = [{ kind: 'beam', label: 'beam (fit)', rect: result.regions.beam }];
   let autoRegions: AutoRegions | null = null;
@@ -268,17 +278,14 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   if (givenReference) overlay.push({ kind: 'reference', label: 'reference (given)', rect: givenReference });
   else if (regions?.reference) overlay.push({ kind: 'reference', label: 'reference candidate', rect: regions.reference.rect });
 
-  // The frame with the most modulated light shows where the beam is.
-  let showFrame = -1;
-  for (let f = 0; f < frames; f++) if (usable[f] && Number.isFinite(modulation[f]!) && (showFrame < 0 || modulation[f]! > modulation[showFrame]!)) showFrame = f;
-  if (showFrame < 0) showFrame = frames >> 1;
-  const startS = Number.isFinite(out.info.startTimeS) ? out.info.startTimeS : 0;
   let framePng: Buffer;
   let rebuilt = false;
   let caption = `frame ${showFrame} at ${times[showFrame]!.toFixed(2)} s`;
-  try {
-    framePng = await grabFramePng(opts.videoPath, Math.max(0, times[showFrame]! - startS));
-  } catch (err) {
+  const frameOrError = await grabbed;
+  if ('png' in frameOrError) {
+    framePng = frameOrError.png;
+  } else {
+    const err = frameOrError.error;
     if (!isKerrError(err)) throw err;
     warn('overlay-frame', `regions are drawn on a picture rebuilt from the maps because no frame could be taken from the video (${err.message})`);
     const open = new Float32Array(gw * gh);

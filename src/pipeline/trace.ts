@@ -2,9 +2,9 @@
  * The trace pipeline: one decoding pass over a video that measures the user's regions in every
  * frame (what `kerrtrace trace` prints, and the benchmark's case (b)).
  *
- * probe → camera decoding from the stream's tags (overridable) → frame stream (cropped inside
- * ffmpeg to the box around all regions, so only those pixels cross the pipe) → region meter →
- * dark subtraction and exposure correction.
+ * probe → camera decoding from the stream's tags (overridable) → region stream (one decode, each
+ * region cropped inside ffmpeg and sent through its own pipe, so only those pixels reach Node) →
+ * region meter per region → dark subtraction and exposure correction.
  *
  * Corrected series, per channel c and frame t: (roi_c,t − dark_c,t) / gain_t, with
  * gain_t = (ref_t − dark_t) / median(ref − dark) from the reference region's luminance
@@ -21,12 +21,13 @@
  */
 import { KerrError } from '../errors.js';
 import { decodingFor, type DecodingChoice } from '../core/camera/decodingFor.js';
-import { alignCrop, openFrameStream } from '../media/frameStream.js';
+import { openFrameStream, type FrameStreamOptions } from '../media/frameStream.js';
+import { openRegionStream, type RegionStreamOptions } from '../media/regionStream.js';
 import { probeMedia, type ProbeResult } from '../media/probe.js';
 import type { CameraDecoding, Rect, VideoInfo } from '../media/types.js';
 import { exposureGains, type ExposureGains } from '../measure/exposure.js';
-import { boundingRect, validateRect } from '../measure/rect.js';
-import { createRegionMeter } from '../measure/regionMeter.js';
+import { validateRect } from '../measure/rect.js';
+import { createRegionMeter, type RegionMeasurement } from '../measure/regionMeter.js';
 
 export interface TraceOptions {
   /** Regions to trace (at least one), displayed-frame pixels. */
@@ -37,7 +38,7 @@ export interface TraceOptions {
   reference?: Rect;
   /** Overrides of the decoding read from the stream's tags (transfer, range, matrix, clip code). */
   decoding?: Partial<CameraDecoding>;
-  /** Crop inside ffmpeg to the box around all regions (default true; false decodes whole frames). */
+  /** Crop each region inside ffmpeg (default true); false sends whole frames through one pipe. */
   cropToRegions?: boolean;
   maxFrames?: number;
   onProgress?: (done: number, total: number) => void;
@@ -73,8 +74,8 @@ export interface TraceResult {
   gains?: ExposureGains;
   /** (region − dark)/gain per channel; clippedFraction as measured. */
   corrected: RegionSeries[];
-  /** The crop ffmpeg applied (the whole frame when none). */
-  crop: Rect;
+  /** The crops ffmpeg delivered (even-aligned regions), or the whole frame once. */
+  crops: Rect[];
 }
 
 function emptySeries(rect: Rect, capacity: number): RegionSeries {
@@ -112,23 +113,12 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
   const all: Rect[] = [...opts.regions];
   if (opts.dark) all.push(opts.dark);
   if (opts.reference) all.push(opts.reference);
-  const crop = opts.cropToRegions === false
-    ? { x: 0, y: 0, w: info.width, h: info.height }
-    : alignCrop(boundingRect(all), info.width, info.height);
-  const local = all.map((r) => ({ x: r.x - crop.x, y: r.y - crop.y, w: r.w, h: r.h }));
-  const meter = createRegionMeter(crop.w, crop.h, local, decoding);
 
   let capacity = Math.max(16, (opts.maxFrames !== undefined ? Math.min(opts.maxFrames, probe.expectedFrames) : probe.expectedFrames) + 1);
   let timeS = new Float64Array(capacity);
   let series = all.map((r) => emptySeries(r, capacity));
-
-  const streamOptions: Parameters<typeof openFrameStream>[1] = { probe, crop };
-  if (opts.maxFrames !== undefined) streamOptions.maxFrames = opts.maxFrames;
-  if (opts.onProgress) streamOptions.onProgress = opts.onProgress;
-  if (opts.signal) streamOptions.signal = opts.signal;
-  const stream = openFrameStream(path, streamOptions);
   let n = 0;
-  for await (const frame of stream) {
+  const record = (frameTimeS: number, samples: readonly RegionMeasurement[]): void => {
     if (n >= capacity) {
       capacity = Math.ceil(capacity * 1.5);
       const grown = new Float64Array(capacity);
@@ -136,8 +126,7 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
       timeS = grown;
       series = series.map((s) => resize(s, capacity));
     }
-    timeS[n] = frame.timeS;
-    const samples = meter.measure(frame);
+    timeS[n] = frameTimeS;
     for (let k = 0; k < samples.length; k++) {
       const s = series[k]!;
       const m = samples[k]!;
@@ -148,8 +137,33 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
       s.clippedFraction[n] = m.clippedFraction;
     }
     n++;
+  };
+
+  const common: RegionStreamOptions & FrameStreamOptions = { probe };
+  if (opts.maxFrames !== undefined) common.maxFrames = opts.maxFrames;
+  if (opts.onProgress) common.onProgress = opts.onProgress;
+  if (opts.signal) common.signal = opts.signal;
+  let crops: Rect[];
+  let streamNotes: readonly string[];
+  if (opts.cropToRegions === false) {
+    const meter = createRegionMeter(info.width, info.height, all, decoding);
+    const stream = openFrameStream(path, common);
+    for await (const frame of stream) record(frame.timeS, meter.measure(frame));
+    crops = [{ x: 0, y: 0, w: info.width, h: info.height }];
+    streamNotes = stream.notes;
+  } else {
+    const stream = openRegionStream(path, all, common);
+    const layout = await stream.layout();
+    const meters = layout.crops.map((c, k) => createRegionMeter(c.w, c.h, [layout.offsets[k]!], decoding));
+    const samples: RegionMeasurement[] = new Array<RegionMeasurement>(all.length);
+    for await (const set of stream) {
+      for (let k = 0; k < meters.length; k++) samples[k] = meters[k]!.measure(set.regions[k]!)[0]!;
+      record(set.timeS, samples);
+    }
+    crops = layout.crops;
+    streamNotes = stream.notes;
   }
-  notes.push(...stream.notes);
+  notes.push(...streamNotes);
   timeS = timeS.slice(0, n);
   series = series.map((s) => resize(s, n));
 
@@ -180,7 +194,7 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
     return out;
   });
 
-  const result: TraceResult = { info, probe, decoding, notes, frames: n, timeS, regions, corrected, crop };
+  const result: TraceResult = { info, probe, decoding, notes, frames: n, timeS, regions, corrected, crops };
   if (dark) result.dark = dark;
   if (reference) result.reference = reference;
   if (gains) result.gains = gains;

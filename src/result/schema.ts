@@ -90,6 +90,9 @@ export interface RunResult {
     degreesOfFreedom: number;
     starts: number;
     robust: 'huber' | 'none';
+    /** Lag-1 autocorrelation of the residuals and the factor by which every standard error was widened for it. */
+    residualAutocorrelation: number;
+    errorInflation: number;
   };
   /** Classic reduction: V² against 2·arcsin√T on the first branch. */
   linearised: { kerrConstant: Quantity; points: number; agreesWithFit: boolean; zScore: number } | null;

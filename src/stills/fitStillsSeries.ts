@@ -16,7 +16,7 @@
  */
 import { isKerrError } from '../errors.js';
 import { quantity, type Quantity } from '../quantity.js';
-import { fitKerrCurve, type KerrCurveFit } from '../pipeline/fitKerrCurve.js';
+import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { CLIPPED_WARNING_FRACTION } from './clippedLimit.js';
 
 export const MIN_PHOTOS = 6;

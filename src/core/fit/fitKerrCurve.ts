@@ -17,10 +17,10 @@
  * Pure: no I/O. Throws KerrError FIT_FAILED when no start converges, NOT_IDENTIFIABLE callers
  * decide (the result carries `identifiable`).
  */
-import { KerrError } from '../errors.js';
-import { quantity, type Quantity } from '../quantity.js';
-import { levenbergMarquardt, type CurveModel, type LmResult } from '../core/fit/levenbergMarquardt.js';
-import { fitRobust } from '../core/fit/robustFit.js';
+import { KerrError } from '../../errors.js';
+import { quantity, type Quantity } from '../../quantity.js';
+import { levenbergMarquardt, type CurveModel, type LmResult } from './levenbergMarquardt.js';
+import { fitRobust } from './robustFit.js';
 
 export interface KerrCurveInput {
   voltageV: Float64Array;
@@ -58,6 +58,9 @@ export interface KerrCurveFit {
   outliers: Uint8Array;
   /** Residual over its expected standard deviation (effective-variance weighting), per input point. */
   standardizedResiduals: Float64Array;
+  /** Lag-1 autocorrelation of the standardised residuals, and the factor applied to every standard error for it. */
+  residualAutocorrelation: number;
+  errorInflation: number;
   /** Standard deviation of the intensity noise alone (same units as intensity). */
   intensityNoise: number;
   /** Evaluate the fitted model at a voltage. */
@@ -142,6 +145,22 @@ function intensityVariance(resid: Float64Array, extra: Float64Array): number {
     else hi = mid;
   }
   return Math.max(hi, 1e-30);
+}
+
+/** Lag-1 autocorrelation coefficient of a series (0 for fewer than 3 points). */
+function lagOneCorrelation(x: Float64Array): number {
+  const n = x.length;
+  if (n < 3) return 0;
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += x[i]!;
+  mean /= n;
+  let num = 0, den = 0;
+  for (let i = 0; i < n; i++) {
+    const d = x[i]! - mean;
+    den += d * d;
+    if (i > 0) num += d * (x[i - 1]! - mean);
+  }
+  return den > 0 ? Math.min(0.99, num / den) : 0;
 }
 
 export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
@@ -240,15 +259,6 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   }
 
   const p = final.params;
-  const vpiIdx = nParams - 1;
-  const vpi = p[vpiIdx]!;
-  const vpiErr = final.stdErr[vpiIdx]!;
-  const b = (gapM * gapM) / (2 * effectiveLengthM * vpi * vpi);
-  const relStdErrB = (2 * vpiErr) / vpi;
-  const corr = fixedAmp === null ? final.correlation(1, 2) : 0;
-  const atBound = vpi >= 0.999 * 60 * vMax;
-  const identifiable = !atBound && Number.isFinite(relStdErrB) && relStdErrB < 0.25 && !(Math.abs(corr) > 0.98 && relStdErrB > 0.05);
-
   // residual RMS over all points (unweighted) and standardised residuals
   let ss = 0;
   const standardizedResiduals = new Float64Array(n);
@@ -257,8 +267,24 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
     ss += r * r;
     standardizedResiduals[i] = r / Math.sqrt(s0sq + slope2[i]!);
   }
-  const floorLevel = quantity(p[0]!, final.stdErr[0], 'linear');
-  const amplitude = fixedAmp === null ? quantity(p[1]!, final.stdErr[1], 'linear') : quantity(fixedAmp, undefined, 'linear');
+  // Neighbouring frames share errors (compression, log interpolation, slow flicker), so the
+  // residuals are autocorrelated and the least-squares errors too small. Treat them as AR(1)
+  // with lag-1 correlation ρ: the effective number of points is n·(1 − ρ)/(1 + ρ), so every
+  // standard error grows by √((1 + ρ)/(1 − ρ)) (Bence, Ecology 76, 628 (1995); common practice).
+  const rho = lagOneCorrelation(standardizedResiduals);
+  const inflation = rho > 0 ? Math.sqrt((1 + rho) / (1 - rho)) : 1;
+  const stdErr = Float64Array.from(final.stdErr, (e) => e * inflation);
+  const vpiIdx = nParams - 1;
+  const vpi = p[vpiIdx]!;
+  const vpiErr = stdErr[vpiIdx]!;
+  const b = (gapM * gapM) / (2 * effectiveLengthM * vpi * vpi);
+  const relStdErrB = (2 * vpiErr) / vpi;
+  const corr = fixedAmp === null ? final.correlation(1, 2) : 0;
+  const atBound = vpi >= 0.999 * 60 * vMax;
+  const identifiable = !atBound && Number.isFinite(relStdErrB) && relStdErrB < 0.25 && !(Math.abs(corr) > 0.98 && relStdErrB > 0.05);
+
+  const floorLevel = quantity(p[0]!, stdErr[0], 'linear');
+  const amplitude = fixedAmp === null ? quantity(p[1]!, stdErr[1], 'linear') : quantity(fixedAmp, undefined, 'linear');
   return {
     floorLevel,
     amplitude,
@@ -277,6 +303,8 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
     weights,
     outliers,
     standardizedResiduals,
+    residualAutocorrelation: rho,
+    errorInflation: inflation,
     intensityNoise: Math.sqrt(s0sq),
     predict: (v: number) => model.value(p, v),
   };

@@ -1,0 +1,86 @@
+/**
+ * The demo a newcomer runs first: simulate the before/after purification runs from the built-in
+ * scenarios, analyse both, compare them and write everything under one folder.
+ */
+import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { KerrError } from '../errors.js';
+import { sha256File } from '../io/sha256File.js';
+import { parseScenario } from '../sim/scenario.js';
+import { simulateRun } from '../sim/simulate.js';
+import type { AnalyzeOutput } from '../pipeline/analyze.js';
+import { analyzeWithProducts } from '../pipeline/analyzeWithProducts.js';
+import { finishRun } from '../pipeline/finishRun.js';
+import { compareRuns } from '../compare/compareRuns.js';
+import { writeComparison } from '../compare/writeComparison.js';
+import type { Comparison } from '../compare/comparison.js';
+import { DEMO_AFTER, DEMO_BEFORE, DEMO_CELL, DEMO_REFERENCE_ROI } from './demoScenarios.js';
+
+const MARKER = '.kerrtrace-demo';
+
+export interface DemoOptions {
+  outDir: string;
+  force: boolean;
+  toolVersion: string;
+  ffmpegVersion: string | null;
+  onStage?: (stage: string) => void;
+  onProgress?: (stage: string, done: number, total: number) => void;
+}
+
+export interface DemoOutput {
+  outDir: string;
+  runs: { name: string; dir: string; out: AnalyzeOutput }[];
+  comparison: Comparison;
+  comparisonDir: string;
+}
+
+/**
+ * A folder that holds an earlier demo (it carries a marker file) is replaced; any other existing
+ * folder is left alone unless `force` is set.
+ */
+export async function runDemo(o: DemoOptions): Promise<DemoOutput> {
+  const outDir = resolve(o.outDir);
+  if (existsSync(outDir)) {
+    if (!existsSync(join(outDir, MARKER)) && !o.force) {
+      throw new KerrError('FILE_EXISTS', `${o.outDir} already exists and is not an earlier demo folder`, {
+        path: '--out',
+        hint: 'Choose another folder with --out, or add --force to replace it',
+      });
+    }
+    rmSync(outDir, { recursive: true, force: true });
+  }
+  mkdirSync(outDir, { recursive: true });
+  writeFileSync(join(outDir, MARKER), 'This folder was written by `kerrtrace demo` and is replaced when the demo runs again.\n');
+  const runs: DemoOutput['runs'] = [];
+  for (const [name, scenarioJson] of [['before', DEMO_BEFORE], ['after', DEMO_AFTER]] as const) {
+    const simDir = join(outDir, name, 'recording');
+    o.onStage?.(`simulating the ${name} run`);
+    const scenario = parseScenario(scenarioJson, `built-in demo scenario "${name}"`);
+    await simulateRun(scenario, simDir, { force: true, ...(o.onProgress ? { onProgress: (d: number, t: number) => o.onProgress!(`render ${name}`, d, t) } : {}) });
+    o.onStage?.(`analysing the ${name} run`);
+    const { out, products } = await analyzeWithProducts(
+      {
+        videoPath: join(simDir, 'clip.mp4'),
+        voltsPath: join(simDir, 'volts.csv'),
+        lengthMm: DEMO_CELL.lengthMm,
+        gapMm: DEMO_CELL.gapMm,
+        electrodeHeightMm: DEMO_CELL.electrodeHeightMm,
+        referenceRoi: DEMO_REFERENCE_ROI,
+        label: scenarioJson.label,
+      },
+      { toolVersion: o.toolVersion, ffmpegVersion: o.ffmpegVersion, ...(o.onProgress ? { onProgress: (s: string, d: number, t: number) => o.onProgress!(`analyse ${name}`, d, t) } : {}) },
+    );
+    const dir = await finishRun(out, {
+      outDir: join(outDir, name, 'analysis'), force: true, report: true,
+      ...(products ? { extraFiles: products.files, images: products.images } : {}),
+    });
+    runs.push({ name, dir, out });
+  }
+  o.onStage?.('comparing the runs');
+  const comparison = compareRuns(runs.map((r) => r.out.result), ['before purification', 'after purification'], {
+    sources: await Promise.all(runs.map(async (r) => ({ path: join(r.dir, 'result.json'), sha256: await sha256File(join(r.dir, 'result.json')) }))),
+  });
+  const comparisonDir = join(outDir, 'comparison');
+  await writeComparison(comparisonDir, comparison, { force: true, toolVersion: o.toolVersion });
+  return { outDir, runs, comparison, comparisonDir };
+}

@@ -1,0 +1,223 @@
+/**
+ * Runs a bench scenario and writes a synthetic recording with known truth:
+ *   DIR/clip.mp4     H.264 clip rendered frame by frame (render.ts → encodeClip.ts)
+ *   DIR/volts.csv    the voltage logger's file (voltageLogWriter.ts)
+ *   DIR/truth.json   the planted parameters and the figures an analysis should recover (truth.ts)
+ *   DIR/scenario.json a copy of the scenario as given
+ *
+ * Order of work: check the output folder (refuse to overwrite files without `force`) and find
+ * ffmpeg before any rendering; render and encode into a temporary sibling folder; check the clip's
+ * packet times with ffprobe against the planned frame times; only then move the files into DIR.
+ * A failure removes the temporary folder, so DIR never holds a half-written run.
+ * Same scenario and seed → the same raw frames (their SHA-256 is recorded in truth.json).
+ *
+ * Throws KerrError FILE_EXISTS, FFMPEG_MISSING, FFMPEG_FAILED (and BAD_SCENARIO from the scenario).
+ * @example await simulateRun(parseScenario(json, 'ramp.json'), 'out/ramp', { onProgress: (d, n) => {} })
+ */
+import { createHash, randomBytes } from 'node:crypto';
+import { mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { KerrError } from '../errors.js';
+import { locate } from '../media/ffmpegPaths.js';
+import { halfWaveVoltageV } from '../core/physics/kerr.js';
+import { openClipEncoder, probePacketTimesS, type ClipEncoder } from './encodeClip.js';
+import { nextGain, wantedGain } from './exposure.js';
+import { frameTimes } from './frameTimes.js';
+import { makeRng } from './rng.js';
+import { exposeFrame, renderRadiance } from './render.js';
+import { rationalRate, type Scenario } from './scenario.js';
+import { prepareScene } from './scene.js';
+import { makeCodeEncoder } from './transfer.js';
+import { buildTruth, type FrameRecord } from './truth.js';
+import { formatVoltageLog } from './voltageLogWriter.js';
+
+export interface SimulateOptions {
+  /** Replace clip.mp4, volts.csv, truth.json and scenario.json in an existing, non-empty folder. */
+  force?: boolean;
+  /** Called after each frame is rendered and queued for encoding. */
+  onProgress?: (done: number, total: number) => void;
+}
+
+export interface SimulateSummary {
+  outDir: string;
+  files: { clip: string; volts: string; truth: string; scenario: string };
+  frameCount: number;
+  durationS: number;
+  variableFrameRate: boolean;
+  halfWaveVoltageV: number;
+  logRows: number;
+  rawFramesSha256: string;
+  truth: Record<string, unknown>;
+}
+
+export const OUTPUT_FILES = ['clip.mp4', 'volts.csv', 'truth.json', 'scenario.json'] as const;
+
+/** Largest allowed gap between a planned frame time and the clip's packet time, s. */
+const FRAME_TIME_TOLERANCE_S = 5e-4;
+
+export async function simulateRun(scenario: Scenario, outDir: string, opts: SimulateOptions = {}): Promise<SimulateSummary> {
+  const target = resolve(outDir);
+  const targetExists = await checkOutputFolder(target, opts.force === true);
+  const ffmpegVersion = locate('ffmpeg').version;
+  locate('ffprobe');
+
+  const parent = dirname(target);
+  await mkdir(parent, { recursive: true });
+  const tmp = join(parent, `.${basename(target)}.tmp-${process.pid}-${randomBytes(4).toString('hex')}`);
+  await mkdir(tmp);
+  let encoder: ClipEncoder | null = null;
+  try {
+    const { camera } = scenario;
+    const root = makeRng(scenario.seed);
+    const clock = frameTimes(camera.timing, scenario.durationS, root.split('clock'));
+    const scene = prepareScene(scenario, clock, root);
+    const codes = makeCodeEncoder(camera.transfer);
+    const variable = camera.timing.kind === 'variable';
+    const rational = camera.timing.kind === 'constant' ? camera.timing.rational : rationalRate(camera.timing.tickHz);
+    const clipPath = join(tmp, 'clip.mp4');
+    encoder = openClipEncoder({
+      outPath: clipPath,
+      widthPx: camera.widthPx,
+      heightPx: camera.heightPx,
+      transfer: camera.transfer,
+      crf: camera.crf,
+      rate: { kind: variable ? 'variable' : 'constant', rational },
+    });
+
+    const count = clock.timesS.length;
+    const work = new Float32Array(camera.widthPx * camera.heightPx * 3);
+    const frame = new Uint8Array(work.length);
+    const previous = variable ? new Uint8Array(work.length) : null;
+    const hash = createHash('sha256');
+    const frames: FrameRecord[] = [];
+    const auto = camera.autoExposure;
+    let gain = camera.gain;
+    for (let k = 0; k < count; k++) {
+      const timeS = clock.timesS[k]!;
+      const radiance = renderRadiance(scene, k, timeS, work);
+      if (auto && k === 0) gain = wantedGain(auto, radiance.meanRadiance);
+      const exposure = exposeFrame(work, gain, camera, root.split('frame', k), codes, frame);
+      hash.update(frame);
+      if (previous) {
+        if (k > 0 && Buffer.from(frame.buffer, frame.byteOffset, frame.byteLength).equals(previous)) {
+          throw new KerrError('BAD_SCENARIO', `frames ${k - 1} and ${k} came out identical, so a variable-frame-rate clip cannot keep them apart`, {
+            hint: 'Raise camera.readNoise or camera.photonsPerFullScale so consecutive frames differ',
+          });
+        }
+        previous.set(frame);
+      }
+      const repeats = variable && k + 1 < count ? clock.ticks![k + 1]! - clock.ticks![k]! : 1;
+      await encoder.write(frame, repeats);
+      frames.push({ voltageV: radiance.voltageV, gain, clippedCount: exposure.clippedCount });
+      if (auto && k + 1 < count) gain = nextGain(auto, gain, radiance.meanRadiance, clock.timesS[k + 1]! - timeS);
+      opts.onProgress?.(k + 1, count);
+    }
+    await encoder.finish();
+    encoder = null;
+    checkFrameTimes(probePacketTimesS(clipPath), clock.timesS, variable);
+
+    const log = formatVoltageLog(scenario, root.split('logger'));
+    const rawFramesSha256 = hash.digest('hex');
+    const truth = buildTruth({
+      scene,
+      clock,
+      frames,
+      log,
+      rawFramesSha256,
+      generator: { name: 'kerrtrace simulate', version: await packageVersion(), ffmpegVersion },
+    });
+    await writeFile(join(tmp, 'volts.csv'), log.text, 'utf8');
+    await writeFile(join(tmp, 'truth.json'), `${JSON.stringify(truth, null, 2)}\n`, 'utf8');
+    await writeFile(join(tmp, 'scenario.json'), `${JSON.stringify(scenario.sourceJson, null, 2)}\n`, 'utf8');
+
+    await install(tmp, target, targetExists);
+    const { cell } = scenario;
+    return {
+      outDir: target,
+      files: {
+        clip: join(target, 'clip.mp4'),
+        volts: join(target, 'volts.csv'),
+        truth: join(target, 'truth.json'),
+        scenario: join(target, 'scenario.json'),
+      },
+      frameCount: count,
+      durationS: scenario.durationS,
+      variableFrameRate: variable,
+      halfWaveVoltageV: halfWaveVoltageV(cell.kerrConstantMPerV2, cell.effectiveLengthM, cell.gapM),
+      logRows: log.rows,
+      rawFramesSha256,
+      truth,
+    };
+  } catch (err) {
+    encoder?.abort();
+    await rm(tmp, { recursive: true, force: true });
+    throw err;
+  }
+}
+
+/** Returns whether the folder exists; refuses a file, or a non-empty folder without force. */
+async function checkOutputFolder(target: string, force: boolean): Promise<boolean> {
+  let info;
+  try {
+    info = await stat(target);
+  } catch {
+    return false;
+  }
+  if (!info.isDirectory()) {
+    throw new KerrError('FILE_EXISTS', `the output ${target} is a file, not a folder`, {
+      path: target,
+      hint: 'Give --out a folder name (it is created if missing)',
+    });
+  }
+  const entries = await readdir(target);
+  if (entries.length > 0 && !force) {
+    const shown = entries.slice(0, 4).join(', ') + (entries.length > 4 ? ', …' : '');
+    throw new KerrError('FILE_EXISTS', `the output folder ${target} already holds files (${shown})`, {
+      path: target,
+      hint: `Choose another --out folder, or add --force to replace ${OUTPUT_FILES.join(', ')} there`,
+    });
+  }
+  return true;
+}
+
+/** Moves the finished files from the temporary folder into place. */
+async function install(tmp: string, target: string, targetExists: boolean): Promise<void> {
+  if (!targetExists) {
+    try {
+      await rename(tmp, target);
+      return;
+    } catch {
+      await mkdir(target, { recursive: true }); // created meanwhile: fall back to moving files one by one
+    }
+  }
+  for (const name of OUTPUT_FILES) await rename(join(tmp, name), join(target, name));
+  await rm(tmp, { recursive: true, force: true });
+}
+
+function checkFrameTimes(packetTimesS: number[], plannedS: Float64Array, variable: boolean): void {
+  const hint = variable
+    ? 'Raise camera.readNoise so consecutive frames differ, or use a constant camera.frameRateHz'
+    : 'Check the bundled ffmpeg (kerrtrace --version)';
+  if (packetTimesS.length !== plannedS.length) {
+    throw new KerrError('FFMPEG_FAILED', `the encoded clip holds ${packetTimesS.length} frames where ${plannedS.length} were rendered`, { hint });
+  }
+  for (let k = 0; k < plannedS.length; k++) {
+    if (Math.abs(packetTimesS[k]! - plannedS[k]!) > FRAME_TIME_TOLERANCE_S) {
+      throw new KerrError('FFMPEG_FAILED', `frame ${k} of the encoded clip is at ${packetTimesS[k]} s where ${plannedS[k]} s was planned`, { hint });
+    }
+  }
+}
+
+async function packageVersion(): Promise<string> {
+  const here = dirname(fileURLToPath(import.meta.url));
+  for (const p of [join(here, '..', '..', 'package.json'), join(here, '..', '..', '..', 'package.json')]) {
+    try {
+      const pkg = JSON.parse(await readFile(p, 'utf8')) as { name?: string; version?: string };
+      if (pkg.name === 'kerrtrace' && pkg.version) return pkg.version;
+    } catch {
+      // try the next location
+    }
+  }
+  return 'unknown';
+}
