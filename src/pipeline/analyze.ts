@@ -26,7 +26,7 @@ import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { findBeam, cellBoxMean, type CellBox } from '../core/regions/findBeam.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
-import { detectSpikes } from '../core/events/detectSpikes.js';
+import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
 import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
@@ -506,22 +506,33 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   const sigmaAll = interpolationUncertaintyV(log.timeS, log.voltageV, query, voltageNoiseV(log.voltageV));
   const sFit = Float64Array.from(useIdx, (f) => sigmaAll[f]!);
   let fit = fitKerrCurve({ voltageV: vFit, intensity: iFit, voltageSigmaV: sFit, ...fitInput });
-  // Particle spikes: short positive runs of standardised residuals, in time order; left out and refitted.
-  const spikes = detectSpikes(fit.standardizedResiduals, Float64Array.from(useIdx, (f) => times[f]!));
-  if (spikes.events > 0) {
-    const keep: number[] = [];
-    for (let k = 0; k < useIdx.length; k++) {
-      const f = useIdx[k]!;
-      if (spikes.flags[k]) excluded[f] = 'particle';
-      else keep.push(k);
-    }
-    for (const p of spikes.peaks) events.push({ kind: 'particle', frameIndex: useIdx[p.index]!, timeS: times[useIdx[p.index]!]!, size: p.z });
-    fit = fitKerrCurve({
-      voltageV: Float64Array.from(keep, (k) => vFit[k]!), intensity: Float64Array.from(keep, (k) => iFit[k]!),
-      voltageSigmaV: Float64Array.from(keep, (k) => sFit[k]!), ...fitInput,
+  // Particle passages: short positive excursions above the model, judged against the local noise
+  // (which grows with brightness); left out, then the fit runs again without them. A cleaner fit
+  // can reveal passages the first one hid, so this repeats (at most three rounds).
+  const logIntervalS = log.rows > 1 ? (log.timeS[log.rows - 1]! - log.timeS[0]!) / (log.rows - 1) : undefined;
+  let fitIdx = useIdx.map((_f, k) => k); // positions in vFit/iFit/sFit still used
+  for (let round = 0; round < 3; round++) {
+    const particles = detectParticleEvents({
+      intensity: Float64Array.from(fitIdx, (k) => iFit[k]!),
+      model: Float64Array.from(fitIdx, (k) => fit.predict(vFit[k]!)),
+      candidate: new Uint8Array(fitIdx.length).fill(1),
+      timesS: Float64Array.from(fitIdx, (k) => times[useIdx[k]!]!),
+      ...(logIntervalS !== undefined ? { logIntervalS } : {}),
     });
-    useIdx.splice(0, useIdx.length, ...keep.map((k) => useIdx[k]!));
+    if (particles.events.length === 0) break;
+    const flagged = new Uint8Array(fitIdx.length);
+    for (const e of particles.events) {
+      for (let j = e.firstFrame; j <= e.lastFrame; j++) flagged[j] = 1;
+      events.push({ kind: 'particle', frameIndex: useIdx[fitIdx[e.peakFrame]!]!, timeS: e.peakTimeS, size: e.size });
+    }
+    for (let j = 0; j < fitIdx.length; j++) if (flagged[j]) excluded[useIdx[fitIdx[j]!]!] = 'particle';
+    fitIdx = fitIdx.filter((_k, j) => !flagged[j]);
+    fit = fitKerrCurve({
+      voltageV: Float64Array.from(fitIdx, (k) => vFit[k]!), intensity: Float64Array.from(fitIdx, (k) => iFit[k]!),
+      voltageSigmaV: Float64Array.from(fitIdx, (k) => sFit[k]!), ...fitInput,
+    });
   }
+  useIdx.splice(0, useIdx.length, ...fitIdx.map((k) => useIdx[k]!));
   const vUsed = Float64Array.from(useIdx, (f) => voltage[f]!);
   const iUsed = Float64Array.from(useIdx, (f) => intensity[f]!);
   if (!fit.identifiable) {

@@ -1,31 +1,17 @@
 /**
  * The `simulate` command through the real command line (node bin/kerrtrace.js), as a user runs it.
- * The compiled files in dist/ are rebuilt first when they are older than the simulator's sources.
+ * `npm test` compiles dist/ before Vitest runs (run `npx tsc -p .` first when running this file alone).
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 
 const root = fileURLToPath(new URL('../../', import.meta.url));
 const work = mkdtempSync(join(tmpdir(), 'kerrtrace-sim-cli-'));
 afterAll(() => rmSync(work, { recursive: true, force: true }));
-
-function newestMtime(dir: string): number {
-  return Math.max(...readdirSync(dir).filter((f) => f.endsWith('.ts')).map((f) => statSync(join(dir, f)).mtimeMs));
-}
-
-beforeAll(() => {
-  const built = join(root, 'dist', 'src', 'sim', 'simulate.js');
-  const builtCli = join(root, 'dist', 'cli', 'commands', 'simulate.js');
-  const sources = Math.max(newestMtime(join(root, 'src', 'sim')), statSync(join(root, 'cli', 'commands', 'simulate.ts')).mtimeMs);
-  if (!existsSync(built) || !existsSync(builtCli) || Math.min(statSync(built).mtimeMs, statSync(builtCli).mtimeMs) < sources) {
-    // tsc emits even when files elsewhere in the tree have type errors; the run below shows whether the CLI works
-    spawnSync(process.execPath, [join(root, 'node_modules', 'typescript', 'bin', 'tsc'), '-p', root], { cwd: root, encoding: 'utf8' });
-  }
-});
 
 function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
   const r = spawnSync(process.execPath, [join(root, 'bin', 'kerrtrace.js'), ...args], { cwd: root, encoding: 'utf8', timeout: 120_000 });

@@ -6,7 +6,7 @@
  *   r_t = I_t − M_t                                 (residual of the Kerr fit, M the model)
  *   b_t = median{ r_s : 0 < |s − t| ≤ w }            (slow misfit and drift; w ≈ `halfWindowS`)
  *   d_t = r_t − b_t
- *   σ_t = max(1.4826·MAD{ d_s : |s − t| ≤ w }, ¼·1.4826·MAD(d))   (local robust scale; MAD: Hampel 1974)
+ *   σ_t = max(√(a + b·M_t), ¼·1.4826·MAD(d))      (noise model; MAD: Hampel 1974)
  *   u_t = T · max{ |ΔM_s − ΔM_t| : |s − t| ≤ S },  ΔM_s = M_{s+1} − M_s   (timing allowance)
  *   z_t = (d_t − u_t) / σ_t
  *
@@ -23,9 +23,12 @@
  * model's frame-to-frame change varies within S frames (one log interval, `logIntervalS`, at
  * least 2 frames). On steady ramps and holds ΔM hardly varies and u_t ≈ 0, so a particle is seen
  * at full sensitivity there.
- * Why σ_t is local: camera noise grows with brightness (shot noise ∝ √I); one global scale, set
- * by the many dark frames, would make every bright frame of a sweep look like a spike. A quarter
- * of the global scale is the floor for perfectly quiet stretches.
+ * Why σ_t follows the brightness: camera noise grows with it (shot noise: variance ∝ I); one
+ * global scale, set by the many dark frames, would make every bright frame of a sweep look like a
+ * spike. The noise model σ² = a + b·M is fitted to robust scales of frame-to-frame differences of
+ * d (which cancel slow misfit) in brightness bins, so neighbouring particles or a step in the same
+ * stretch of time do not inflate it, as a running local scale would. A quarter of the global scale
+ * is the floor for perfectly quiet stretches.
  *
  * Units: intensity and model in the same linear units; times in s; rate per minute.
  * Never mutates its inputs. Throws KerrError INTERNAL for arrays of different length.
@@ -71,6 +74,38 @@ export interface ParticleDetection {
   /** Time span of the judged frames, s. */
   spanS: number;
   ratePerMinute: Quantity;
+}
+
+/**
+ * σ² = a + b·level from frame-to-frame differences: Var(d_k − d_{k−1}) = 2σ² for independent
+ * noise; robust scales per brightness bin (up to 8 bins of equal count), then a least-squares
+ * line through (level, σ²) with a, b ≥ 0. Falls back to the global scale with few points.
+ */
+function brightnessNoiseModel(d: Float64Array, level: Float64Array, globalScale: number): { a: number; b: number } {
+  const m = d.length;
+  const fallback = { a: globalScale * globalScale, b: 0 };
+  if (m < 40) return fallback;
+  const pairs: { level: number; diff: number }[] = [];
+  for (let k = 1; k < m; k++) pairs.push({ level: (level[k]! + level[k - 1]!) / 2, diff: d[k]! - d[k - 1]! });
+  pairs.sort((p, q) => p.level - q.level);
+  const bins = Math.min(8, Math.floor(pairs.length / 20));
+  if (bins < 2) return fallback;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (let b = 0; b < bins; b++) {
+    const part = pairs.slice(Math.floor((b * pairs.length) / bins), Math.floor(((b + 1) * pairs.length) / bins));
+    const sigma = robustScale(Float64Array.from(part, (p) => p.diff)) / Math.SQRT2;
+    xs.push(part.reduce((acc, p) => acc + p.level, 0) / part.length);
+    ys.push(sigma * sigma);
+  }
+  const n = xs.length;
+  const mx = xs.reduce((a, x) => a + x, 0) / n;
+  const my = ys.reduce((a, y) => a + y, 0) / n;
+  let sxy = 0, sxx = 0;
+  for (let i = 0; i < n; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
+  const b = sxx > 0 ? Math.max(0, sxy / sxx) : 0;
+  const a = Math.max(0, my - b * mx);
+  return a + b * mx > 0 ? { a, b } : fallback;
 }
 
 export function detectParticleEvents(input: ParticleEventsInput): ParticleDetection {
@@ -120,13 +155,14 @@ export function detectParticleEvents(input: ParticleEventsInput): ParticleDetect
   }
   const scale = robustScale(detrended);
   const floorScale = Math.max(0.25 * scale, 1e-9);
+  const noise = brightnessNoiseModel(detrended, Float64Array.from(idx, (f) => model[f]!), scale);
 
   const events: ParticleEvent[] = [];
   let open: ParticleEvent | null = null;
   for (let k = 0; k < m; k++) {
     if (!(detrended[k]! > zLimit * floorScale)) continue; // cheap pre-check before the local scale
     const f = idx[k]!;
-    const local = Math.max(robustScale(detrended.subarray(Math.max(0, k - w), Math.min(m, k + w + 1))), floorScale);
+    const local = Math.max(Math.sqrt(Math.max(0, noise.a + noise.b * model[f]!)), floorScale);
     const z = (detrended[k]! - allowance(f)) / local;
     if (!(z > zLimit)) continue;
     if (open && f - open.lastFrame <= maxGap + 1) {
