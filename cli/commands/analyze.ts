@@ -38,7 +38,7 @@ export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
   offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
   polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
-  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string;
 }
 
 export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
@@ -65,6 +65,10 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
   if (c.label !== undefined) o.label = c.label;
   if (c.robust === false) o.robust = false;
+  if (c.channels !== undefined) {
+    if (c.channels !== 'rgb') throw invalid('rgb (fit the red, green and blue channels separately)', '--channels', c.channels);
+    o.channels = 'rgb';
+  }
   return o;
 }
 
@@ -91,6 +95,7 @@ export function register(program: Command): void {
     .option('--transfer <name>', 'camera transfer: srgb, bt709, gamma:G or linear (default: from the video metadata)')
     .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
     .option('--label <text>', 'a name for this run in reports and comparisons')
+    .option('--channels <rgb>', 'also fit B in the red, green and blue channels separately (white light)')
     .option('--no-robust', 'plain least squares instead of Huber weighting')
     .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')
     .option('--no-maps', 'skip the static/modulated maps and scatter figures')
@@ -141,6 +146,10 @@ export function summaryText(r: import('../../src/result/schema.js').RunResult, d
   lines.push(`  contrast ratio       ${formatQuantity(r.contrastRatio)}`);
   lines.push(`  sync offset          ${formatQuantity(r.syncOffset)}${r.sync.manual ? ' (given)' : ''}`);
   lines.push(`  frames used          ${r.frames.used} of ${r.frames.total}${Object.keys(r.frames.excluded).length ? ` (left out: ${Object.entries(r.frames.excluded).map(([k, v]) => `${v} ${k}`).join(', ')})` : ''}`);
+  if (r.channels) {
+    lines.push(`  B by channel         R ${formatQuantity(r.channels.r)}, G ${formatQuantity(r.channels.g)}, B ${formatQuantity(r.channels.b)}`);
+    lines.push(`                       (${r.channels.note})`);
+  }
   for (const w of r.warnings) lines.push(`  warning: ${w.message}`);
   lines.push(`  files: ${dir}`);
   return `${lines.join('\n')}\n`;

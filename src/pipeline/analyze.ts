@@ -52,6 +52,8 @@ export interface AnalyzeOptions {
   electrodeHeightMm?: number;
   label?: string;
   robust?: boolean;
+  /** 'rgb': also fit the red, green and blue channels separately (white-light sources). */
+  channels?: 'rgb';
 }
 
 export interface AnalyzeHooks {
@@ -150,12 +152,32 @@ function chooseGridStep(info: VideoInfo): number {
   return step;
 }
 
+/** Per-frame means of one region: linear luminance, the three channels, and the clipped fraction. */
+interface RegionSeries {
+  luma: Float64Array;
+  r: Float64Array;
+  g: Float64Array;
+  b: Float64Array;
+  clipped: Float64Array;
+}
+
+const SERIES_KEYS = ['luma', 'r', 'g', 'b', 'clipped'] as const;
+
 interface PassOutput {
   times: Float64Array;
   grid: GridStore;
-  regionMeans: Float64Array[]; // per region: luma per frame
-  regionClipped: Float64Array[];
+  regions: RegionSeries[];
   frames: number;
+}
+
+function newSeries(cap: number): RegionSeries {
+  return { luma: new Float64Array(cap), r: new Float64Array(cap), g: new Float64Array(cap), b: new Float64Array(cap), clipped: new Float64Array(cap) };
+}
+
+function resizeSeries(s: RegionSeries, size: number): RegionSeries {
+  const out = newSeries(size);
+  for (const k of SERIES_KEYS) out[k].set(s[k].subarray(0, Math.min(size, s[k].length)));
+  return out;
 }
 
 async function decodePass(path: string, info: VideoInfo, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
@@ -166,16 +188,14 @@ async function decodePass(path: string, info: VideoInfo, decoding: CameraDecodin
   const gh = step ? Math.floor(info.height / step) : 0;
   const cells = gw * gh;
   let grid = new Float32Array(step ? cap * cells : 0);
-  let means = regions.map(() => new Float64Array(cap));
-  let clipped = regions.map(() => new Float64Array(cap));
+  let series = regions.map(() => newSeries(cap));
   const meter = regions.length ? createRegionMeter(info.width, info.height, regions, decoding) : null;
   const sampler = step ? createGridSampler(info.width, info.height, step, decoding) : null;
   let n = 0;
   const growTo = (next: number) => {
     const t2 = new Float64Array(next); t2.set(times); times = t2;
     if (step) { const g2 = new Float32Array(next * cells); g2.set(grid); grid = g2; }
-    means = means.map((m) => { const a = new Float64Array(next); a.set(m); return a; });
-    clipped = clipped.map((m) => { const a = new Float64Array(next); a.set(m); return a; });
+    series = series.map((x) => resizeSeries(x, next));
     cap = next;
   };
   const stream = openFrameStream(path, onProgress ? { onProgress } : {});
@@ -186,8 +206,8 @@ async function decodePass(path: string, info: VideoInfo, decoding: CameraDecodin
     if (meter) {
       const samples = meter.measure(frame);
       for (let r = 0; r < samples.length; r++) {
-        means[r]![n] = samples[r]!.luma;
-        clipped[r]![n] = samples[r]!.clippedFraction;
+        const x = series[r]!, m = samples[r]!;
+        x.luma[n] = m.luma; x.r[n] = m.r; x.g[n] = m.g; x.b[n] = m.b; x.clipped[n] = m.clippedFraction;
       }
     }
     n++;
@@ -195,8 +215,7 @@ async function decodePass(path: string, info: VideoInfo, decoding: CameraDecodin
   return {
     times: times.slice(0, n),
     grid: { data: step ? grid.subarray(0, n * cells) : grid, frames: n, gridWidth: gw, gridHeight: gh, step: step ?? 0 },
-    regionMeans: means.map((m) => m.slice(0, n)),
-    regionClipped: clipped.map((m) => m.slice(0, n)),
+    regions: series.map((x) => resizeSeries(x, n)),
     frames: n,
   };
 }
@@ -277,10 +296,10 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   let rectMeans: (f: number) => [number, number, number, number];
   if (o.roi) {
     beamRect = o.roi;
-    beamRaw.set(pass.regionMeans[idx.beam!]!);
-    beamClipped.set(pass.regionClipped[idx.beam!]!);
+    beamRaw.set(pass.regions[idx.beam!]!.luma);
+    beamClipped.set(pass.regions[idx.beam!]!.clipped);
     rectMeans = geom
-      ? (f) => [beamRaw[f]!, pass.regionMeans[idx.a0!]![f]!, pass.regionMeans[idx.a1!]![f]!, pass.regionMeans[idx.b1!]![f]!]
+      ? (f) => [beamRaw[f]!, pass.regions[idx.a0!]!.luma[f]!, pass.regions[idx.a1!]!.luma[f]!, pass.regions[idx.b1!]!.luma[f]!]
       : () => [0, 0, 0, 0];
   } else {
     const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
@@ -300,7 +319,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
   }
   if (o.darkRoi) {
-    surroundRaw.set(pass.regionMeans[idx.dark!]!);
+    surroundRaw.set(pass.regions[idx.dark!]!.luma);
   } else {
     const sw = surroundWeights(geom!);
     if (sw.ringACount < 16) {
@@ -341,7 +360,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   // ---- exposure gain from a reference region ----
   const gain = new Float64Array(nFrames).fill(1);
   if (o.referenceRoi) {
-    const ref = pass.regionMeans[idx.reference!]!;
+    const ref = pass.regions[idx.reference!]!.luma;
     const refMedian = median(ref);
     if (!(refMedian > 1e-4)) {
       warn('reference-dark', 'the reference region is nearly black, so exposure could not be corrected from it', 'lock-exposure');
@@ -362,6 +381,31 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   if (clippedFrames > 0) {
     for (let f = 0; f < nFrames; f++) if (excluded[f] === 'clipped') events.push({ kind: 'clipped', frameIndex: f, timeS: times[f]!, size: beamClipped[f]! });
     warn('clipping', `${clippedFrames} frames have more than 1% clipped pixels in the beam and were left out; defocus the spot, add an ND filter or lower the exposure`, 'avoid-clipping');
+  }
+
+  // ---- per-channel intensities (--channels rgb) ----
+  let channelIntensity: MeasuredRun['channelIntensity'];
+  if (o.channels === 'rgb') {
+    let beamS: RegionSeries, ringS: RegionSeries[] = [];
+    if (o.roi) {
+      beamS = pass.regions[idx.beam!]!;
+      ringS = o.darkRoi ? [pass.regions[idx.dark!]!] : geom ? [pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [];
+    } else {
+      // The beam was found on the luminance grid; one more pass reads its colour at full resolution.
+      const rects = [beamRect, ...(o.darkRoi ? [o.darkRoi] : haveSurround && geom ? [geom.a0, geom.a1, geom.b1] : [])];
+      const second = await decodePass(o.videoPath, info, decoding, rects, null, hooks.onProgress ? (d, t) => hooks.onProgress!('colour pass', d, t) : undefined);
+      if (second.frames !== nFrames) throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
+      beamS = second.regions[0]!;
+      ringS = second.regions.slice(1);
+    }
+    const coef = !o.darkRoi && haveSurround && geom ? surroundWeights(geom).coefficients : null;
+    const channel = (k: 'r' | 'g' | 'b'): Float64Array => Float64Array.from(beamS[k], (v, f) => {
+      let bg = 0;
+      if (o.darkRoi) bg = ringS[0]![k][f]!;
+      else if (coef) bg = coef[1] * ringS[0]![k][f]! + coef[2] * ringS[1]![k][f]! + coef[3] * ringS[2]![k][f]!;
+      return (v - bg) / gain[f]!;
+    });
+    channelIntensity = { r: channel('r'), g: channel('g'), b: channel('b') };
   }
 
   // open window frames
@@ -391,11 +435,11 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     const vals: number[] = [];
     for (let f = 0; f < openPass.frames; f++) {
       let bg = 0;
-      if (o.darkRoi) bg = openPass.regionMeans[1]![f]!;
+      if (o.darkRoi) bg = openPass.regions[1]!.luma[f]!;
       else if (haveSurround) {
-        bg = sw[1]! * openPass.regionMeans[1]![f]! + sw[2]! * openPass.regionMeans[2]![f]! + sw[3]! * openPass.regionMeans[3]![f]!;
+        bg = sw[1]! * openPass.regions[1]!.luma[f]! + sw[2]! * openPass.regions[2]!.luma[f]! + sw[3]! * openPass.regions[3]!.luma[f]!;
       }
-      vals.push(openPass.regionMeans[0]![f]! - bg);
+      vals.push(openPass.regions[0]!.luma[f]! - bg);
     }
     openLevel = median(vals);
   }
@@ -435,6 +479,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     o, hooks, info, decoding, log, grid, times, nFrames, intensity, gain, voltage, query, vAbsMax, openLevel,
     offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround,
     excluded: excluded.slice(), events: events.slice(), warnings: warnings.slice(),
+    ...(channelIntensity ? { channelIntensity } : {}),
   };
 }
 
@@ -467,6 +512,8 @@ export interface MeasuredRun {
   excluded: (string | null)[];
   events: RunEvent[];
   warnings: RunWarning[];
+  /** Beam minus surround per colour channel, exposure-corrected (only with channels: 'rgb'). */
+  channelIntensity?: { r: Float64Array; g: Float64Array; b: Float64Array };
 }
 
 /**
@@ -579,6 +626,30 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     linearised = null;
   }
 
+  // ---- per-channel fits ----
+  let channels: RunResult['channels'];
+  if (m.channelIntensity) {
+    const ci = m.channelIntensity;
+    const one = (series: Float64Array): Quantity => {
+      try {
+        // The open level is a luminance figure, so each channel fits its own amplitude.
+        const channelInput = { ...fitInput };
+        delete channelInput.openLevel;
+        const f = fitKerrCurve({
+          voltageV: vUsed, intensity: Float64Array.from(useIdx, (i) => series[i]!),
+          voltageSigmaV: Float64Array.from(useIdx, (i) => sigmaAll[i]!), ...channelInput,
+        });
+        return f.identifiable ? f.kerrConstant : quantity(NaN, undefined, 'm/V^2');
+      } catch {
+        return quantity(NaN, undefined, 'm/V^2');
+      }
+    };
+    channels = {
+      r: one(ci.r), g: one(ci.g), b: one(ci.b),
+      note: 'each camera channel is a broad band of wavelengths, so these are band averages of B (the Kerr constant varies with wavelength); a channel with too little light gives no number',
+    };
+  }
+
   // ---- trace and modulation term ----
   const trace: TraceRow[] = [];
   const modulation = new Float64Array(nFrames);
@@ -638,7 +709,8 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     frames: { total: nFrames, used: usedCount, excluded: excludedCounts },
     events: events.sort((a, b) => a.frameIndex - b.frameIndex),
     log: { rows: log.rows, spanS: log.timeS[log.rows - 1]! - log.timeS[0]!, currentColumn: log.currentA !== null, temperatureC: temperature },
-    warnings: [...log.warnings.map((m) => ({ code: 'voltage-log', message: m })), ...warnings],
+    warnings: [...log.warnings.map((message) => ({ code: 'voltage-log', message })), ...warnings],
+    ...(channels ? { channels } : {}),
     files: {},
   };
   return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding, gain: m.gain, log, measured: m };
