@@ -38,7 +38,7 @@ export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
   offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
   polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
-  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string; wavelengthNm?: string;
 }
 
 export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
@@ -64,6 +64,7 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   if (c.transfer !== undefined) o.transfer = parseTransfer(c.transfer);
   if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
   if (c.label !== undefined) o.label = c.label;
+  if (c.wavelengthNm !== undefined) o.wavelengthNm = parseNumber(c.wavelengthNm, '--wavelength-nm', 'a wavelength in nm');
   if (c.robust === false) o.robust = false;
   if (c.channels !== undefined) {
     if (c.channels !== 'rgb') throw invalid('rgb (fit the red, green and blue channels separately)', '--channels', c.channels);
@@ -95,6 +96,7 @@ export function register(program: Command): void {
     .option('--transfer <name>', 'camera transfer: srgb, bt709, gamma:G or linear (default: from the video metadata)')
     .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
     .option('--label <text>', 'a name for this run in reports and comparisons')
+    .option('--wavelength-nm <nm>', 'wavelength of the light, nm (recorded; compare warns when runs differ)')
     .option('--channels <rgb>', 'also fit B in the red, green and blue channels separately (white light)')
     .option('--no-robust', 'plain least squares instead of Huber weighting')
     .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')

@@ -86,5 +86,5 @@ export const DEMO_AFTER = {
 };
 
 /** The cell geometry the demo analyses with (the same as the scenarios above). */
-export const DEMO_CELL = { lengthMm: cell.lengthMm, gapMm: cell.gapMm, electrodeHeightMm: cell.electrodeHeightMm };
+export const DEMO_CELL = { lengthMm: cell.lengthMm, gapMm: cell.gapMm, electrodeHeightMm: cell.electrodeHeightMm, wavelengthNm: light.wavelengthNm };
 export const DEMO_REFERENCE_ROI = { x: 24, y: 184, w: 42, h: 32 };

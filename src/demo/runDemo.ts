@@ -66,6 +66,7 @@ export async function runDemo(o: DemoOptions): Promise<DemoOutput> {
         gapMm: DEMO_CELL.gapMm,
         electrodeHeightMm: DEMO_CELL.electrodeHeightMm,
         referenceRoi: DEMO_REFERENCE_ROI,
+        wavelengthNm: DEMO_CELL.wavelengthNm,
         label: scenarioJson.label,
       },
       { toolVersion: o.toolVersion, ffmpegVersion: o.ffmpegVersion, ...(o.onProgress ? { onProgress: (s: string, d: number, t: number) => o.onProgress!(`analyse ${name}`, d, t) } : {}) },

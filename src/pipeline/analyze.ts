@@ -52,6 +52,8 @@ export interface AnalyzeOptions {
   electrodeHeightMm?: number;
   label?: string;
   robust?: boolean;
+  /** Wavelength of the light, nm (recorded with the result; B depends on it). */
+  wavelengthNm?: number;
   /** 'rgb': also fit the red, green and blue channels separately (white-light sources). */
   channels?: 'rgb';
 }
@@ -112,6 +114,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
     }
   }
   if (o.electrodeHeightMm !== undefined) positive(o.electrodeHeightMm, 'electrode height in mm', '--electrode-height-mm');
+  if (o.wavelengthNm !== undefined && !(o.wavelengthNm >= 200 && o.wavelengthNm <= 2000)) throw invalid('a wavelength between 200 and 2000 nm', '--wavelength-nm', o.wavelengthNm);
   const opens = [o.openWindowS, o.openVideoPath, o.openLevel].filter((x) => x !== undefined).length;
   if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
@@ -683,7 +686,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     tool: { name: 'kerrtrace', version: hooks.toolVersion, ffmpegVersion: hooks.ffmpegVersion, node: process.version },
     inputs: {},
     options: { ...o },
-    cell: { lengthM, effectiveLengthM, gapM, polariserAngleDeg, electrodeHeightM: o.electrodeHeightMm !== undefined ? o.electrodeHeightMm * MM : null, wavelengthNm: null },
+    cell: { lengthM, effectiveLengthM, gapM, polariserAngleDeg, electrodeHeightM: o.electrodeHeightMm !== undefined ? o.electrodeHeightMm * MM : null, wavelengthNm: o.wavelengthNm ?? null },
     camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range },
     regions: {
       beam: beamRect, beamAuto,

@@ -3,9 +3,11 @@
  * no console errors, no network requests, every plot and image has a size, hostile text stays
  * text (no script runs), the page prints to PDF; screenshots go to test-output/screenshots/.
  *
- * Input is pluggable: set KERRTRACE_BROWSER_REPORT and/or KERRTRACE_BROWSER_COMPARISON to the
- * path of a report.html / comparison.html made elsewhere (e.g. by a real analyze run); otherwise
- * the pages are built here from the fixtures in test/fixtures/results/.
+ * The pages come from a real run: the built-in demo (simulate → analyze with maps → compare) is
+ * run into a temporary folder, and its before-run report and its comparison are opened. A
+ * fixture with hostile text in every user field is opened as well. Set KERRTRACE_BROWSER_REPORT
+ * and/or KERRTRACE_BROWSER_COMPARISON to open other pages instead; KERRTRACE_BROWSER_FIXTURES=1
+ * builds the run and comparison from the fixtures in test/fixtures/results/ (fast, no video).
  */
 import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -18,6 +20,7 @@ import { compareRuns } from '../../src/compare/compareRuns.js';
 import { writeComparison } from '../../src/compare/writeComparison.js';
 import { writeRunReport } from '../../src/report/writeRunReport.js';
 import { buildRunFixture, hostileRunFixture } from '../fixtures/results/buildRunFixture.js';
+import { runDemo } from '../../src/demo/runDemo.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const hasChromium = existsSync(CHROMIUM);
@@ -51,7 +54,15 @@ async function buildPages(dir: string): Promise<Pages> {
   const fromEnvComparison = process.env.KERRTRACE_BROWSER_COMPARISON;
   let report = fromEnvReport ? resolve(fromEnvReport) : '';
   let hostileReport: string | null = null;
-  if (!fromEnvReport) {
+  let comparisonFromDemo = '';
+  if (!fromEnvReport && !process.env.KERRTRACE_BROWSER_FIXTURES) {
+    const demo = await runDemo({ outDir: join(dir, 'demo'), force: true, toolVersion: 'test', ffmpegVersion: null });
+    report = join(demo.runs[0]!.dir, 'report.html');
+    comparisonFromDemo = join(demo.comparisonDir, 'comparison.html');
+    const hostile = hostileRunFixture();
+    await writeRunReport(join(dir, 'hostile'), { result: hostile.result, trace: hostile.trace });
+    hostileReport = join(dir, 'hostile', 'report.html');
+  } else if (!fromEnvReport) {
     const { result, trace } = buildRunFixture({ label: 'cell A, nitrobenzene, after filtering' });
     await writeRunReport(join(dir, 'run'), { result, trace, images: { frameWithRegionsPng: await frameWithRegions(), staticMapPng: await mapImage(30), modulatedMapPng: await mapImage(200) } });
     report = join(dir, 'run', 'report.html');
@@ -59,8 +70,8 @@ async function buildPages(dir: string): Promise<Pages> {
     await writeRunReport(join(dir, 'hostile'), { result: hostile.result, trace: hostile.trace });
     hostileReport = join(dir, 'hostile', 'report.html');
   }
-  let comparison = fromEnvComparison ? resolve(fromEnvComparison) : '';
-  if (!fromEnvComparison) {
+  let comparison = fromEnvComparison ? resolve(fromEnvComparison) : comparisonFromDemo;
+  if (!comparison) {
     const before = buildRunFixture({ label: 'before', seed: 3 }).result;
     const after = buildRunFixture({ label: 'after', seed: 4, floorFraction: 0.0046, warnings: [] }).result;
     const c = compareRuns([before, after], ['before filtering', '<script>window.__pwned=3</script>']);
