@@ -12,7 +12,7 @@
  *   orientation; crop and scale run inside ffmpeg, after the rotation. A crop's left and top are
  *   rounded down to even pixels and its right and bottom up (chroma is shared by 2x2 pixels), the
  *   crop actually used is in `layout()`.
- * - One preallocated frame buffer is filled from the pipe's chunks (no per-chunk allocation and no
+ * - One preallocated frame buffer is filled from the pipe's chunks (no per-chunk copies or joins, no
  *   whole-frame loops in JS); `Frame.data` is that buffer and is REUSED for the next frame.
  * - Backpressure: the pipe is only read while the consumer asks for the next frame, so memory stays
  *   flat however long the clip is.

@@ -7,7 +7,7 @@
  * - Output k goes to file descriptor 1 (k = 0) or k + 2 (pipe:3, pipe:4, ...); several crops come
  *   from one decode through `split` and `crop` (which only moves data pointers), so only the
  *   cropped bytes cross the pipes.
- * - One preallocated buffer per output, filled from the pipe's chunks (no per-chunk allocation, no
+ * - One preallocated buffer per output, filled from the pipe's chunks (no per-chunk copies or joins, no
  *   JS loops over pixels); the buffers are REUSED for the next frame.
  * - Backpressure: pipes are read only while the consumer asks for the next frame. ffmpeg writes the
  *   outputs of a frame in order and the reader reads them in the same order, so it never waits on

@@ -27,6 +27,9 @@ import { fitKerrCurve } from '../core/fit/fitKerrCurve.js';
 import { modulationMaps, type ModulationMaps } from '../core/scatter/modulationMaps.js';
 import { regionsFromMaps, type ScatterRegions } from '../core/scatter/regionsFromMaps.js';
 import { haloToCoreRatio } from '../core/scatter/haloToCoreRatio.js';
+import { gridLuminanceScale } from '../core/scatter/gridLuminanceScale.js';
+import { surroundWeights } from '../core/regions/localSurround.js';
+import type { Rect } from '../media/types.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { floorFlicker } from '../core/scatter/floorFlicker.js';
 import { baselineFloor } from '../core/scatter/baselineFloor.js';
@@ -84,6 +87,23 @@ function percentile(values: Float32Array, q: number): number {
   const lo = Math.floor(pos);
   const hi = Math.min(s.length - 1, lo + 1);
   return s[lo]! + (s[hi]! - s[lo]!) * (pos - lo);
+}
+
+/**
+ * The beam intensity of analyze as Σ w_k·mean(rect_k): the beam rectangle minus the surround
+ * (the dark region, or the two-ring extrapolation). Null without the measured state (then the
+ * maps' units are taken as they are).
+ */
+function beamIntensityTerms(out: AnalyzeOutput): { rect: Rect; weight: number }[] | null {
+  const m = (out as Partial<AnalyzeOutput>).measured;
+  if (!m) return null;
+  const terms = [{ rect: m.beamRect, weight: 1 }];
+  if (m.o.darkRoi) terms.push({ rect: m.o.darkRoi, weight: -1 });
+  else if (m.haveSurround && m.geom) {
+    const c = surroundWeights(m.geom).coefficients;
+    terms.push({ rect: m.geom.a0, weight: -c[1] }, { rect: m.geom.a1, weight: -c[2] }, { rect: m.geom.b1, weight: -c[3] });
+  }
+  return terms;
 }
 
 function rectText(r: { x: number; y: number; w: number; h: number }): string {
@@ -178,7 +198,13 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
 
   // ---- scatter figures ----
   const scatter: NonNullable<RunResult['scatter']> = {};
-  const halo = regions ? haloToCoreRatio(maps, regions) : null;
+  // The maps are in the grid's grey-luma units; the beam intensity of the fit (region meter) is
+  // luminance. Their ratio on the beam region puts the core amplitude in the halo's unit.
+  const lumaScale = beamIntensityTerms(out) === null ? null : gridLuminanceScale({
+    modulatedMap: maps.modulatedMap, modulatedStdErr: maps.modulatedStdErr, gridWidth: gw, gridHeight: gh, stepPx: step,
+    terms: beamIntensityTerms(out)!, intensity, modulation, usable,
+  });
+  const halo = regions ? haloToCoreRatio(maps, regions, lumaScale ?? undefined) : null;
   if (halo) scatter.haloToCoreRatio = halo.ratio;
   else if (regions) warn('no-far-dark', 'the beam leaves no dark area far from it on the maps, so the halo-to-core ratio is not reported; frame the cell with some dark background around it', 'camera-still');
   if (Number.isFinite(particles.ratePerMinute.value)) scatter.particleEventRate = particles.ratePerMinute;

@@ -1,27 +1,34 @@
 /**
  * Reads a folder of photos taken at known voltages into a measured series for the Kerr fit:
  * per photo the voltage, the beam region's mean linear luminance with the dark region subtracted
- * and the exposure normalised, the clipped fraction and the relative exposure.
+ * and the exposure normalised, the clipped fraction, the relative exposure and (when every photo
+ * carries one) the EXIF capture time.
  *
  * Steps (settings and cheap checks first, pixels last):
  * 1. list the photos (JPEG/PNG/TIFF; HEIC refused with a conversion hint) — listStillPhotos;
  * 2. voltages from the CSV (`voltsPath`, parseStillsMap) or from the file names
  *    (voltageFromFileName); photos missing from a CSV are left out and counted;
  * 3. sizes (EXIF orientation applied) must agree; bit depth 8 or 16; regions inside the frame;
- * 4. EXIF exposure time, ISO and f-number (exifr) → relative exposure t·ISO/N² against the first
- *    photo (relativeExposure); without EXIF a --reference-roi, if given, measures the exposure
- *    (ref − dark against the first photo), otherwise a warning says that nothing can tell;
+ * 4. EXIF exposure time, ISO, f-number and capture time (exifr) → relative exposure t·ISO/N²
+ *    against the first readable photo (relativeExposure), capture times (captureTimesS); without
+ *    exposure EXIF a --reference-roi, if given, measures the exposure (ref − dark against the
+ *    first readable photo), otherwise a warning says that nothing can tell;
  * 5. decode with sharp (embedded ICC profiles ignored: phone profiles such as Display P3 share
  *    the sRGB curve), linearise (default sRGB for 8-bit images and 16-bit PNG, linear for 16-bit
  *    TIFF; `transfer` overrides all), measure regions (measureImageRegions, Rec. 709 luminance);
  * 6. intensity = (roi − dark) / relative exposure (linear units, 1 = full-scale white of the
- *    first photo's exposure).
+ *    first readable photo's exposure).
  * Clipping: a pixel with any channel at or above `clipLevel` of full scale (default 250/255)
  * counts as clipped; photos with more than 1 % of the beam region clipped are named in a warning.
+ * Rule for bad photos (skip and count, never drop silently): a photo that cannot be decoded stays
+ * in the series with NaN values, its reason in `unreadable`, and a warning names it; when no
+ * photo can be read the whole series is refused.
+ * Warnings carry a stable code and, where one fits, the anchor of docs/recording-a-run.md
+ * (src/report/guide.ts).
  *
  * Edge module: reads files. Throws KerrError with one line and a hint for: no photos, HEIC,
  * photos of different sizes, unsupported bit depth, a CSV naming missing files, a file given two
- * voltages, names without a voltage, regions outside the frame (BAD_REGION), unreadable images.
+ * voltages, names without a voltage, regions outside the frame (BAD_REGION), no readable photo.
  * @example const s = await readStillsSeries('run1', { roi: { x: 100, y: 80, w: 40, h: 40 } }); s.intensity
  */
 import { readFile } from 'node:fs/promises';
@@ -30,12 +37,15 @@ import sharp from 'sharp';
 import exifr from 'exifr';
 import { KerrError } from '../errors.js';
 import type { Rect, TransferName } from '../media/types.js';
+import type { RunWarning } from '../result/schema.js';
+import type { GuideAnchor } from '../report/guide.js';
 import { validateRect } from '../measure/rect.js';
 import { exposureGains } from '../measure/exposure.js';
 import { listStillPhotos, type PhotoFormat } from './listStillPhotos.js';
 import { parseStillsMap } from './parseStillsMap.js';
 import { voltageFromFileName } from './voltageFromFileName.js';
 import { relativeExposure, type ExifExposure } from './relativeExposure.js';
+import { captureTimesS, type ExifCaptureTime } from './captureTimes.js';
 import { codeToLinearLut } from './codeToLinearLut.js';
 import { measureImageRegions } from './measureImageRegions.js';
 import { CLIPPED_WARNING_FRACTION } from './clippedLimit.js';
@@ -52,16 +62,19 @@ export interface StillsOptions {
   transfer?: TransferName;
   /** Clipping threshold as a fraction of full scale; default 250/255. */
   clipLevel?: number;
+  /** Called after each photo is decoded (done, total). */
+  onProgress?: (done: number, total: number) => void;
 }
 
 export interface StillsSeries {
   voltageV: Float64Array;
-  /** (roi − dark) / exposureRelative, linear units. */
+  /** (roi − dark) / exposureRelative, linear units; NaN for an unreadable photo. */
   intensity: Float64Array;
   files: string[];
   clippedFraction: Float64Array;
+  /** Against the first readable photo; NaN for an unreadable photo. */
   exposureRelative: Float64Array;
-  warnings: string[];
+  warnings: RunWarning[];
   width: number;
   height: number;
   // Extras for reports and checks.
@@ -73,9 +86,16 @@ export interface StillsSeries {
   darkLinear: Float64Array | null;
   referenceLinear: Float64Array | null;
   exposureBasis: 'exif' | 'reference' | 'none';
+  /** EXIF factors used for the exposure ("exposure time", "ISO", "f-number"); empty unless basis is exif. */
+  exposureFactors: string[];
   voltageSource: 'csv' | 'file-names';
   transfers: TransferName[];
-  bitDepths: number[];
+  /** 8 or 16 per photo; null for an unreadable photo. */
+  bitDepths: Array<number | null>;
+  /** Per photo: null when it was read, else why it could not be. */
+  unreadable: Array<string | null>;
+  /** EXIF capture time per photo, s after the earliest photo; null unless every photo has one (captureTimesS). */
+  captureTimeS: Float64Array | null;
   /** Files in the folder that were not used, with the reason. */
   leftOut: Array<{ file: string; reason: string }>;
 }
@@ -138,12 +158,15 @@ interface PhotoInfo {
   maxCode: 255 | 65535;
 }
 
-async function photoInfo(path: string, file: string): Promise<PhotoInfo> {
+const messageOf = (e: unknown): string => (e instanceof Error ? e.message : String(e)).split('\n')[0]!.trim();
+
+/** Size and depth of one photo, or the reason it cannot be read. @throws KerrError for a depth kerrtrace does not read. */
+async function photoInfo(path: string, file: string): Promise<PhotoInfo | string> {
   let meta;
   try {
     meta = await sharp(path).metadata();
   } catch (e) {
-    throw new KerrError('BAD_ARGUMENT', `${file} could not be read as an image (${e instanceof Error ? e.message : String(e)})`, { path, hint: 'Re-export the photo as JPEG, PNG or TIFF, or move it out of the folder' });
+    return messageOf(e);
   }
   if (meta.depth !== 'uchar' && meta.depth !== 'ushort') {
     throw new KerrError('BAD_ARGUMENT', `${file} has ${meta.depth ?? 'unknown'} samples; kerrtrace reads 8- and 16-bit images`, { path, hint: 'Export the photos as 8-bit JPEG/PNG or 16-bit PNG/TIFF' });
@@ -152,17 +175,28 @@ async function photoInfo(path: string, file: string): Promise<PhotoInfo> {
   return { width: size.width, height: size.height, maxCode: meta.depth === 'ushort' ? 65535 : 255 };
 }
 
-async function exifExposure(path: string): Promise<ExifExposure> {
+type PhotoExif = ExifExposure & ExifCaptureTime;
+
+async function readExif(path: string): Promise<PhotoExif> {
+  const none: PhotoExif = { exposureTimeS: null, iso: null, fNumber: null, dateTimeOriginal: null, subSecTimeOriginal: null, offsetTimeOriginal: null };
   const pickNumber = (v: unknown): number | null => {
     const x = Array.isArray(v) ? v[0] : v;
     return typeof x === 'number' && Number.isFinite(x) ? x : null;
   };
+  const pickText = (v: unknown): string | null => (typeof v === 'string' ? v : typeof v === 'number' && Number.isFinite(v) ? String(v) : null);
   try {
-    const tags = (await exifr.parse(path, { pick: ['ExposureTime', 'ISO', 'FNumber'] })) as Record<string, unknown> | undefined;
-    if (!tags) return { exposureTimeS: null, iso: null, fNumber: null };
-    return { exposureTimeS: pickNumber(tags.ExposureTime), iso: pickNumber(tags.ISO), fNumber: pickNumber(tags.FNumber) };
+    // reviveValues: false keeps DateTimeOriginal as the camera wrote it (no local-time Date).
+    const tags = (await exifr.parse(path, {
+      pick: ['ExposureTime', 'ISO', 'FNumber', 'DateTimeOriginal', 'SubSecTimeOriginal', 'OffsetTimeOriginal'],
+      reviveValues: false,
+    })) as Record<string, unknown> | undefined;
+    if (!tags) return none;
+    return {
+      exposureTimeS: pickNumber(tags.ExposureTime), iso: pickNumber(tags.ISO), fNumber: pickNumber(tags.FNumber),
+      dateTimeOriginal: pickText(tags.DateTimeOriginal), subSecTimeOriginal: pickText(tags.SubSecTimeOriginal), offsetTimeOriginal: pickText(tags.OffsetTimeOriginal),
+    };
   } catch {
-    return { exposureTimeS: null, iso: null, fNumber: null }; // no EXIF block or a format exifr cannot parse
+    return none; // no EXIF block or a format exifr cannot parse
   }
 }
 
@@ -171,7 +205,10 @@ function defaultTransfer(format: PhotoFormat, maxCode: 255 | 65535): TransferNam
 }
 
 export async function readStillsSeries(folder: string, opts: StillsOptions = {}): Promise<StillsSeries> {
-  const warnings: string[] = [];
+  const warnings: RunWarning[] = [];
+  const warn = (code: string, message: string, guideSection?: GuideAnchor): void => {
+    warnings.push(guideSection ? { code, message, guideSection } : { code, message });
+  };
   const notes: string[] = [];
   const listing = await listStillPhotos(folder);
   const leftOut = [...listing.skipped];
@@ -198,7 +235,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
       else leftOut.push({ file: p, reason: `not in ${opts.voltsPath}` });
     });
     const notListed = photos.filter((p) => !matched.has(p));
-    if (notListed.length > 0) warnings.push(`${notListed.length} photo(s) in the folder are not in ${opts.voltsPath} and were left out: ${listNames(notListed)}`);
+    if (notListed.length > 0) warn('photos-not-in-map', `${notListed.length} photo(s) in the folder are not in ${opts.voltsPath} and were left out: ${listNames(notListed)}`);
     if (map.duplicates > 0) notes.push(`${map.duplicates} row(s) of ${opts.voltsPath} repeat a photo with the same voltage`);
     photos = keep.map((i) => listing.photos[i]!);
     formats = keep.map((i) => listing.formats[i]!);
@@ -219,51 +256,72 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     }
   }
 
-  // 3. Sizes and depths.
-  const infos: PhotoInfo[] = [];
-  for (const p of photos) infos.push(await photoInfo(join(folder, p), p));
-  const width = infos[0]!.width;
-  const height = infos[0]!.height;
+  // 3. Sizes and depths; a photo that cannot be read is skipped and counted.
+  const n = photos.length;
+  const unreadable: Array<string | null> = new Array<string | null>(n).fill(null);
+  const infos: Array<PhotoInfo | null> = [];
+  for (let i = 0; i < n; i++) {
+    const info = await photoInfo(join(folder, photos[i]!), photos[i]!);
+    if (typeof info === 'string') {
+      unreadable[i] = info;
+      infos.push(null);
+    } else infos.push(info);
+  }
+  const first = infos.findIndex((info) => info !== null);
+  if (first < 0) throw noneReadable(photos, unreadable, folder);
+  const width = infos[first]!.width;
+  const height = infos[first]!.height;
   infos.forEach((info, i) => {
-    if (info.width !== width || info.height !== height) {
-      throw new KerrError('BAD_ARGUMENT', `the photos differ in size: ${photos[0]} is ${width}x${height} but ${photos[i]} is ${info.width}x${info.height}`, {
+    if (info !== null && (info.width !== width || info.height !== height)) {
+      throw new KerrError('BAD_ARGUMENT', `the photos differ in size: ${photos[first]} is ${width}x${height} but ${photos[i]} is ${info.width}x${info.height}`, {
         path: join(folder, photos[i]!),
         hint: 'Take the whole series from one camera position at one size and orientation (or crop all photos identically)',
       });
     }
   });
-  const bitDepths = infos.map((i) => (i.maxCode === 65535 ? 16 : 8));
-  if (new Set(bitDepths).size > 1) warnings.push('the series mixes 8-bit and 16-bit photos; check that they were all processed the same way');
+  const bitDepths = infos.map((info) => (info === null ? null : info.maxCode === 65535 ? 16 : 8));
+  if (new Set(bitDepths.filter((d) => d !== null)).size > 1) warn('mixed-bit-depth', 'the series mixes 8-bit and 16-bit photos; check that they were all processed the same way');
   const roiIsWholeFrame = opts.roi === undefined;
   const roi = opts.roi ?? { x: 0, y: 0, w: width, h: height };
   validateRect(roi, width, height, '--roi');
   if (opts.darkRoi) validateRect(opts.darkRoi, width, height, '--dark-roi');
   if (opts.referenceRoi) validateRect(opts.referenceRoi, width, height, '--reference-roi');
-  if (roiIsWholeFrame) warnings.push('no --roi given: the whole photo was measured; give the beam region with --roi x,y,w,h for a cleaner signal');
-  if (!opts.darkRoi) notes.push('no --dark-roi: the black level and ambient light stay in the intensity (the fit\'s floor absorbs them)');
+  if (roiIsWholeFrame) warn('whole-photo-region', 'no --roi given: the whole photo was measured; give the beam region with --roi x,y,w,h for a cleaner signal');
+  if (!opts.darkRoi) warn('no-dark-region', 'no --dark-roi given: the black level and ambient light stay in the intensity, so the fit\'s floor (and the floor fraction and contrast ratio) include them; give a region with no beam with --dark-roi');
 
-  // 4. Exposure from EXIF.
-  const exif: ExifExposure[] = [];
-  for (const p of photos) exif.push(await exifExposure(join(folder, p)));
-  const fromExif = relativeExposure(exif);
-  warnings.push(...fromExif.warnings);
+  // 4. EXIF: exposure settings and capture times.
+  const exif: PhotoExif[] = [];
+  for (const p of photos) exif.push(await readExif(join(folder, p)));
+  const captureTimeS = captureTimesS(exif);
+  if (captureTimeS !== null) {
+    for (let i = 1; i < n; i++) {
+      if (captureTimeS[i]! < captureTimeS[i - 1]!) {
+        warn('capture-order', `the EXIF capture times do not follow the order of the file names (${photos[i]} was taken before ${photos[i - 1]}); the photos are used in name order, check that the names are right`);
+        break;
+      }
+    }
+  }
 
   // 5. Pixels.
-  const transfers = infos.map((info, i) => opts.transfer ?? defaultTransfer(formats[i]!, info.maxCode));
-  if (opts.transfer === undefined && transfers.some((t) => t === 'linear')) {
+  const transfers = infos.map((info, i) => opts.transfer ?? defaultTransfer(formats[i]!, info?.maxCode ?? 255));
+  if (opts.transfer === undefined && transfers.some((t, i) => t === 'linear' && infos[i] !== null)) {
     notes.push('16-bit TIFF photos were read as linear (no transfer curve); give --transfer srgb if your converter wrote gamma-encoded TIFF');
   }
   const clipLevel = opts.clipLevel ?? 250 / 255;
   const regions: Rect[] = [roi, ...(opts.darkRoi ? [opts.darkRoi] : []), ...(opts.referenceRoi ? [opts.referenceRoi] : [])];
-  const n = photos.length;
-  const roiLinear = new Float64Array(n);
-  const darkLinear = opts.darkRoi ? new Float64Array(n) : null;
-  const referenceLinear = opts.referenceRoi ? new Float64Array(n) : null;
-  const clippedFraction = new Float64Array(n);
+  const roiLinear = new Float64Array(n).fill(NaN);
+  const darkLinear = opts.darkRoi ? new Float64Array(n).fill(NaN) : null;
+  const referenceLinear = opts.referenceRoi ? new Float64Array(n).fill(NaN) : null;
+  const clippedFraction = new Float64Array(n).fill(NaN);
   const luts = new Map<string, Float64Array>();
   for (let i = 0; i < n; i++) {
+    const info = infos[i];
+    if (info === null || info === undefined) {
+      opts.onProgress?.(i + 1, n);
+      continue;
+    }
     const path = join(folder, photos[i]!);
-    const maxCode = infos[i]!.maxCode;
+    const maxCode = info.maxCode;
     const key = `${transfers[i]}/${maxCode}`;
     let lut = luts.get(key);
     if (lut === undefined) {
@@ -277,19 +335,35 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
         ? await pipeline.toColourspace('rgb16').raw({ depth: 'ushort' }).toBuffer({ resolveWithObject: true })
         : await pipeline.toColourspace('srgb').raw().toBuffer({ resolveWithObject: true });
     } catch (e) {
-      throw new KerrError('BAD_ARGUMENT', `${photos[i]} could not be decoded (${e instanceof Error ? e.message : String(e)})`, { path, hint: 'Re-export the photo as JPEG, PNG or TIFF, or move it out of the folder' });
+      unreadable[i] = messageOf(e);
+      bitDepths[i] = null;
+      opts.onProgress?.(i + 1, n);
+      continue;
     }
-    const { data, info } = decoded;
+    const { data, info: decodedInfo } = decoded;
     const samples = maxCode === 65535 ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
-    const measured = measureImageRegions({ data: samples, width: info.width, height: info.height, channels: info.channels }, regions, lut, Math.round(clipLevel * maxCode));
+    const measured = measureImageRegions({ data: samples, width: decodedInfo.width, height: decodedInfo.height, channels: decodedInfo.channels }, regions, lut, Math.round(clipLevel * maxCode));
     roiLinear[i] = measured[0]!.luma;
     clippedFraction[i] = measured[0]!.clippedFraction;
     if (darkLinear) darkLinear[i] = measured[1]!.luma;
     if (referenceLinear) referenceLinear[i] = measured[opts.darkRoi ? 2 : 1]!.luma;
+    opts.onProgress?.(i + 1, n);
   }
+  const readable: number[] = [];
+  for (let i = 0; i < n; i++) if (unreadable[i] === null) readable.push(i);
+  if (readable.length === 0) throw noneReadable(photos, unreadable, folder);
+  const unreadableNames = photos.filter((_, i) => unreadable[i] !== null);
+  if (unreadableNames.length > 0) {
+    const firstBad = unreadable.findIndex((u) => u !== null);
+    warn('unreadable', `${unreadableNames.length} photo(s) could not be read and were left out: ${listNames(unreadableNames)} (${photos[firstBad]}: ${unreadable[firstBad]}); re-export them as JPEG, PNG or TIFF`);
+  }
+  const refPhoto = readable[0]!;
 
-  // Exposure basis: EXIF, else the reference region, else none (and say so).
-  let exposureRelative = fromExif.relative;
+  // Exposure basis: EXIF, else the reference region, else none (and say so). Relative to the first readable photo.
+  const fromExif = relativeExposure(readable.map((i) => exif[i]!));
+  for (const m of fromExif.warnings) warn('exposure-exif-partial', m, 'lock-exposure');
+  let exposureRelative = new Float64Array(n).fill(NaN);
+  readable.forEach((i, k) => (exposureRelative[i] = fromExif.relative[k]!));
   let exposureBasis: StillsSeries['exposureBasis'] = fromExif.basis;
   if (fromExif.basis === 'exif') {
     notes.push(`exposure normalised from EXIF (${fromExif.factors.join(', ')})${fromExif.varies ? '' : ': identical in every photo'}`);
@@ -297,22 +371,22 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
       const check = new Float64Array(n);
       for (let i = 0; i < n; i++) check[i] = (referenceLinear[i]! - (darkLinear ? darkLinear[i]! : 0)) / exposureRelative[i]!;
       const spread = spreadOf(check);
-      if (spread > 0.05) warnings.push(`after the EXIF exposure normalisation the reference region still changes by ${percent(spread)} between photos: the light itself may have changed, or the EXIF values are not the ones used`);
+      if (spread > 0.05) warn('exposure-exif-mismatch', `after the EXIF exposure normalisation the reference region still changes by ${percent(spread)} between photos: the light itself may have changed, or the EXIF values are not the ones used`, 'lock-exposure');
     }
   } else if (referenceLinear) {
     const gains = exposureGains(referenceLinear, darkLinear ?? undefined).gains;
-    const first = gains[0]!;
-    if (!(first > 0)) {
-      throw new KerrError('BAD_REGION', `the reference region is not brighter than the dark level in ${photos[0]}`, { path: '--reference-roi', hint: 'Put the reference region on a lit grey card that stays in view in every photo' });
+    const firstGain = gains[refPhoto]!;
+    if (!(firstGain > 0)) {
+      throw new KerrError('BAD_REGION', `the reference region is not brighter than the dark level in ${photos[refPhoto]}`, { path: '--reference-roi', hint: 'Put the reference region on a lit grey card that stays in view in every photo' });
     }
-    exposureRelative = gains.map((g) => g / first);
+    exposureRelative = gains.map((g) => g / firstGain);
     exposureBasis = 'reference';
     const spread = spreadOf(exposureRelative);
     if (spread > EXPOSURE_SPREAD_WARNING) {
-      warnings.push(`the photos carry no exposure EXIF and the reference region changes by ${percent(spread)}: the exposure seems to vary; intensities were normalised by the reference region (lock exposure and ISO next time)`);
+      warn('exposure-drift', `the photos carry no exposure EXIF and the reference region changes by ${percent(spread)}: the exposure seems to vary; intensities were normalised by the reference region (lock exposure and ISO next time)`, 'lock-exposure');
     } else notes.push(`no exposure EXIF; the reference region is steady within ${percent(EXPOSURE_SPREAD_WARNING)}, intensities normalised by it`);
   } else {
-    warnings.push('the photos carry no exposure EXIF and no --reference-roi was given: kerrtrace cannot tell whether the exposure changed between photos; lock exposure and ISO (manual mode), or give --reference-roi on a grey card in view');
+    warn('exposure-unknown', 'the photos carry no exposure EXIF and no --reference-roi was given: kerrtrace cannot tell whether the exposure changed between photos; lock exposure and ISO (manual mode), or give --reference-roi on a grey card in view', 'lock-exposure');
   }
 
   const intensity = new Float64Array(n);
@@ -320,9 +394,10 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
 
   const clippedPhotos = photos.filter((_, i) => clippedFraction[i]! > CLIPPED_WARNING_FRACTION);
   if (clippedPhotos.length > 0) {
-    warnings.push(`${clippedPhotos.length} photo(s) have more than ${percent(CLIPPED_WARNING_FRACTION)} of the beam region clipped (${listNames(clippedPhotos)}): their intensity reads low; lower the exposure or add an ND filter`);
+    warn('clipping', `${clippedPhotos.length} photo(s) have more than ${percent(CLIPPED_WARNING_FRACTION)} of the beam region clipped (${listNames(clippedPhotos)}): their intensity reads low and they were left out of the fit; lower the exposure or add an ND filter`, 'avoid-clipping');
   }
-  if (new Set(transfers).size > 1) warnings.push(`the photos were linearised with different transfer curves (${[...new Set(transfers)].join(', ')}); give --transfer to use one for all`);
+  const usedTransfers = [...new Set(readable.map((i) => transfers[i]!))];
+  if (usedTransfers.length > 1) warn('mixed-transfer', `the photos were linearised with different transfer curves (${usedTransfers.join(', ')}); give --transfer to use one for all`);
 
   return {
     voltageV: Float64Array.from(voltages),
@@ -340,9 +415,19 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     darkLinear,
     referenceLinear,
     exposureBasis,
+    exposureFactors: fromExif.basis === 'exif' ? fromExif.factors : [],
     voltageSource,
     transfers,
     bitDepths,
+    unreadable,
+    captureTimeS,
     leftOut,
   };
+}
+
+function noneReadable(photos: string[], unreadable: Array<string | null>, folder: string): KerrError {
+  return new KerrError('BAD_ARGUMENT', `none of the ${photos.length} photo(s) in ${folder} could be read (${photos[0]}: ${unreadable[0] ?? 'unknown reason'})`, {
+    path: join(folder, photos[0]!),
+    hint: 'Re-export the photos as JPEG, PNG or TIFF',
+  });
 }

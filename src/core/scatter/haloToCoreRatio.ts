@@ -1,42 +1,59 @@
 /**
- * Halo-to-core ratio: how bright the static scatter halo just outside the beam is, relative to
- * the beam's modulation amplitude at its core:
+ * Halo-to-core ratio: how bright the static forward-scatter light just outside the beam is,
+ * relative to the beam's modulation amplitude at its core:
  *
- *   R = (mean static light in the halo annulus − far dark level) / peak of the modulated map.
+ *   R = (mean static light in the halo band − far dark level) / (κ · peak of the modulated map).
  *
- * Both terms come from the per-block regression (`modulationMaps`): the annulus mean and the
- * dark level are intercepts (static light), the peak is a slope (I_amp of the brightest block).
- * Standard error by first-order propagation (the numerator N and peak P independent):
- *   σ_R = √((σ_N/P)² + (N·σ_P/P²)²),  σ_N = √(σ_annulus² + σ_dark²),
- * with σ_annulus = √(Σ se(a_c)²)/n over the n annulus blocks.
+ * "Just outside the beam" is the halo band of `regionsFromMaps`: the blocks outside the beam's
+ * 5 % footprint within w = max(r₅₀, 2 blocks) of it (r₅₀ the half-peak radius), for a round beam
+ * the ring r₅ < r ≤ r₅ + r₅₀. The band mean and the dark level are intercepts of the per-block
+ * regression (`modulationMaps`, static light); the peak is a slope (I_amp of the brightest block).
+ * κ (`gridLuminanceScale`, default 1) turns the peak from the grid's grey-luma units into Rec. 709
+ * luminance, the unit of the numerator: the halo is a small signal over the room light, where the
+ * grid reads luminance to first order, but a bright coloured core is compressed by the transfer
+ * curve (a red spot by about 0.6×) and would otherwise inflate R by 1/κ.
+ * The simulator's truth (src/sim/truth.ts) is the same quantity from the planted light:
+ * S·(mean H over the band − H at the far corner)/A.
+ *
+ * Standard error by first-order propagation (numerator N, peak P and κ independent):
+ *   σ_R = √((σ_N/(κP))² + (R·σ_P/P)² + (R·σ_κ/κ)²),  σ_N = √(σ_band² + σ_dark²),
+ * with σ_band = √(Σ se(a_c)²)/n over the n band blocks.
  *
  * Dimensionless. A clean liquid gives R near 0 (only polariser leak and stray light); dirt that
- * scatters light forward raises it. Returns null (nothing to report) when there is no far dark
- * region or no annulus. Pure; throws nothing.
- * @example haloToCoreRatio(maps, regions) → { value: 0.021, stdErr: 0.0004 }
+ * scatters light forward raises it. The beam's own zero-field light (floor) reaches into the band
+ * at under 5 % of its core level and adds a few per cent of it. Returns null (nothing to report)
+ * when there is no far dark region or no band. Pure; throws nothing.
+ * @example haloToCoreRatio(maps, regions, { scale: 1.6, stdErr: 0.005 }) → { ratio: { value: 0.0150, stdErr: 0.0001 }, … }
  */
 import { quantity, type Quantity } from '../../quantity.js';
 import type { ModulationMaps } from './modulationMaps.js';
 import type { ScatterRegions } from './regionsFromMaps.js';
-import { cellBoxContains } from './cellGeometry.js';
 
 export interface HaloMeasure {
   ratio: Quantity;
-  /** Mean static light in the annulus and the far dark level, linear units. */
+  /** Mean static light in the band and the far dark level, linear (grid) units. */
   annulusLevel: number;
   darkLevel: number;
+  /** κ·P: the core's modulation amplitude in luminance units. */
+  coreAmplitude: number;
+  /** Blocks averaged in the band. */
+  bandCells: number;
 }
 
-export function haloToCoreRatio(maps: ModulationMaps, regions: ScatterRegions): HaloMeasure | null {
+export function haloToCoreRatio(
+  maps: ModulationMaps,
+  regions: ScatterRegions,
+  coreScale: { scale: number; stdErr: number } = { scale: 1, stdErr: 0 },
+): HaloMeasure | null {
   if (!regions.dark || regions.halo.cellCount <= 0) return null;
-  const { outer, inner } = regions.halo;
+  const { mask, outer } = regions.halo;
   let sum = 0;
   let varSum = 0;
   let n = 0;
   for (let y = outer.y0; y <= outer.y1; y++) {
     for (let x = outer.x0; x <= outer.x1; x++) {
-      if (cellBoxContains(inner, x, y)) continue;
       const c = y * maps.width + x;
+      if (!mask[c]) continue;
       sum += maps.staticMap[c]!;
       varSum += maps.staticStdErr[c]! ** 2;
       n++;
@@ -46,9 +63,12 @@ export function haloToCoreRatio(maps: ModulationMaps, regions: ScatterRegions): 
   const annulusLevel = sum / n;
   const numerator = annulusLevel - regions.dark.level;
   const numeratorErr = Math.hypot(Math.sqrt(varSum) / n, regions.dark.levelStdErr);
-  const peak = regions.peakModulated.value;
-  const peakErr = regions.peakModulated.stdErr;
+  const peak = regions.peakModulated.value * coreScale.scale;
   const ratio = numerator / peak;
-  const ratioErr = Math.hypot(numeratorErr / peak, (numerator * peakErr) / (peak * peak));
-  return { ratio: quantity(ratio, ratioErr), annulusLevel, darkLevel: regions.dark.level };
+  const ratioErr = Math.hypot(
+    numeratorErr / peak,
+    ratio * (regions.peakModulated.stdErr / regions.peakModulated.value),
+    ratio * (coreScale.stdErr / coreScale.scale),
+  );
+  return { ratio: quantity(ratio, ratioErr), annulusLevel, darkLevel: regions.dark.level, coreAmplitude: peak, bandCells: n };
 }

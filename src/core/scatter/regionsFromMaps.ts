@@ -7,11 +7,15 @@
  *   about 1.18 σ.
  * - beam footprint: the same flood fill down to `footprintFraction` (default 5 %) of the peak
  *   (about 2.45 σ for a Gaussian), kept within a few core sizes of the peak.
- * - halo annulus: the ring of blocks just outside the footprint's bounding box, `ringWidth`
- *   blocks wide (at least 2, at least the core's half-size): where the scatter halo is seen
- *   without the modulated beam.
+ * - halo band ("just outside the beam"): every block outside the footprint whose centre lies
+ *   within w of the centre of a footprint block, w = max(r₅₀, 2·step) px, r₅₀ = step·√(n₅₀/π) the
+ *   equivalent radius of the n₅₀ core blocks (the half-peak radius). For a round beam this is
+ *   the ring r₅ < r ≤ r₅ + r₅₀ around it (r₅ the 5 % radius), for any profile it follows the
+ *   footprint's shape. It is where the scatter halo is seen without the modulated beam; the
+ *   simulator's truth (src/sim/truth.ts) averages its planted halo over the same band.
+ *   `inner` is the footprint's bounding box and `outer` the band's, for drawing.
  * - far dark: the square window of k×k blocks with the lowest mean static light, outside a
- *   keep-out box (the halo's outer box grown by one more ring width).
+ *   keep-out box (the band's bounding box grown by one more band width).
  * - reference candidate: the k×k window outside the keep-out box that is bright (static light at
  *   least 0.03 and 4× the dark level), uniform (block-to-block relative spread ≤ 0.15), not
  *   modulated (|slope|·m-span ≤ 25 % of its static light), steady (residual RMS ≤ 25 % of its
@@ -29,7 +33,7 @@
 import { KerrError } from '../../errors.js';
 import type { Rect } from '../../media/types.js';
 import type { ModulationMaps } from './modulationMaps.js';
-import { cellBoxArea, cellBoxesOverlap, cellBoxToRect, growCellBox, type CellBox } from './cellGeometry.js';
+import { cellBoxesOverlap, cellBoxToRect, growCellBox, type CellBox } from './cellGeometry.js';
 
 export interface RegionsFromMapsOptions {
   stepPx: number;
@@ -54,11 +58,54 @@ export interface ScatterRegions {
   /** Core blocks (flood fill): mask over the grid, and their bounding box. */
   core: MapRegion & { mask: Uint8Array };
   footprint: CellBox;
-  halo: { inner: CellBox; outer: CellBox; innerRect: Rect; outerRect: Rect; cellCount: number; ringWidth: number };
+  /**
+   * The halo band: `mask` marks its blocks (cellCount of them), `inner` is the footprint's
+   * bounding box, `outer` the band's; `widthPx` is w and `ringWidth` = ⌈w/step⌉ blocks.
+   */
+  halo: { mask: Uint8Array; inner: CellBox; outer: CellBox; innerRect: Rect; outerRect: Rect; cellCount: number; ringWidth: number; widthPx: number };
   keepOut: CellBox;
   dark: (MapRegion & { level: number; levelStdErr: number }) | null;
   reference: (MapRegion & { level: number; relVariation: number }) | null;
   windowSize: number;
+}
+
+/**
+ * Blocks outside `mask` whose centre is within `widthBlocks` (block units, Euclidean between
+ * block centres) of a block of `mask`: the mask's outer band. Only the mask's edge blocks (those
+ * with a 4-neighbour outside it) can be nearest, so only they are searched.
+ */
+function bandAround(mask: Uint8Array, box: CellBox, w: number, h: number, widthBlocks: number): { mask: Uint8Array; box: CellBox; count: number } {
+  const edge: number[] = [];
+  for (let y = box.y0; y <= box.y1; y++) {
+    for (let x = box.x0; x <= box.x1; x++) {
+      const c = y * w + x;
+      if (!mask[c]) continue;
+      if (x === 0 || x === w - 1 || y === 0 || y === h - 1 || !mask[c - 1] || !mask[c + 1] || !mask[c - w] || !mask[c + w]) edge.push(x, y);
+    }
+  }
+  const out = new Uint8Array(w * h);
+  const reach = Math.ceil(widthBlocks);
+  const limit = widthBlocks * widthBlocks + 1e-9;
+  const outBox: CellBox = { x0: w, y0: h, x1: -1, y1: -1 };
+  let count = 0;
+  for (let y = Math.max(0, box.y0 - reach); y <= Math.min(h - 1, box.y1 + reach); y++) {
+    for (let x = Math.max(0, box.x0 - reach); x <= Math.min(w - 1, box.x1 + reach); x++) {
+      const c = y * w + x;
+      if (mask[c]) continue;
+      let near = false;
+      for (let k = 0; k < edge.length && !near; k += 2) {
+        const dx = x - edge[k]!;
+        const dy = y - edge[k + 1]!;
+        near = dx * dx + dy * dy <= limit;
+      }
+      if (!near) continue;
+      out[c] = 1;
+      count++;
+      outBox.x0 = Math.min(outBox.x0, x); outBox.x1 = Math.max(outBox.x1, x);
+      outBox.y0 = Math.min(outBox.y0, y); outBox.y1 = Math.max(outBox.y1, y);
+    }
+  }
+  return { mask: out, box: outBox, count };
 }
 
 /** Summed-area table over a w×h map: sum over any box in O(1). */
@@ -132,10 +179,13 @@ export function regionsFromMaps(maps: ModulationMaps, options: RegionsFromMapsOp
   const core = floodFill(modulatedMap, w, h, peak, coreFraction * peakValue, null);
   const coreHalf = Math.max(1, Math.ceil(Math.max(core.box.x1 - core.box.x0 + 1, core.box.y1 - core.box.y0 + 1) / 2));
   const footprintBounds = growCellBox(core.box, Math.max(2, 3 * coreHalf), w, h);
-  const footprint = floodFill(modulatedMap, w, h, peak, footprintFraction * peakValue, footprintBounds).box;
-  const ringWidth = Math.max(2, coreHalf);
+  const foot = floodFill(modulatedMap, w, h, peak, footprintFraction * peakValue, footprintBounds);
+  const footprint = foot.box;
+  const bandWidthPx = Math.max(step * Math.sqrt(core.count / Math.PI), 2 * step);
+  const band = bandAround(foot.mask, footprint, w, h, bandWidthPx / step);
+  const ringWidth = Math.ceil(bandWidthPx / step);
   const haloInner = footprint;
-  const haloOuter = growCellBox(haloInner, ringWidth, w, h);
+  const haloOuter = band.count > 0 ? band.box : growCellBox(haloInner, ringWidth, w, h);
   const keepOut = growCellBox(haloOuter, ringWidth, w, h);
 
   const staticSum = integral(w, h, (c) => staticMap[c]!);
@@ -200,12 +250,14 @@ export function regionsFromMaps(maps: ModulationMaps, options: RegionsFromMapsOp
     core: { cells: core.box, rect: cellBoxToRect(core.box, step), cellCount: core.count, mask: core.mask },
     footprint,
     halo: {
+      mask: band.mask,
       inner: haloInner,
       outer: haloOuter,
       innerRect: cellBoxToRect(haloInner, step),
       outerRect: cellBoxToRect(haloOuter, step),
-      cellCount: cellBoxArea(haloOuter) - cellBoxArea(haloInner),
+      cellCount: band.count,
       ringWidth,
+      widthPx: bandWidthPx,
     },
     keepOut,
     dark,
