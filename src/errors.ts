@@ -47,7 +47,9 @@ export class KerrError extends Error {
 
   /** The single line the command line prints: message, then the hint. */
   oneLine(): string {
-    return this.hint ? `${this.message}. ${this.hint}` : this.message;
+    if (!this.hint) return this.message;
+    const hint = this.hint.charAt(0).toUpperCase() + this.hint.slice(1);
+    return `${this.message.replace(/[.\s]+$/, '')}. ${hint}`;
   }
 }
 

@@ -7,10 +7,8 @@ import { KerrError, invalid } from '../../src/errors.js';
 import { formatQuantity } from '../../src/quantity.js';
 import { parseRect } from '../../src/measure/rect.js';
 import { checkAnalyzeOptions, defaultOutDir, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
-import { analyzeWithProducts } from '../../src/pipeline/analyzeWithProducts.js';
-import { readRunResult } from '../../src/compare/readRunResult.js';
+
 import { checkOutputDir } from '../../src/io/outputDir.js';
-import { finishRun } from '../../src/pipeline/finishRun.js';
 import type { TransferName } from '../../src/media/types.js';
 import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
@@ -111,6 +109,12 @@ export function register(program: Command): void {
       checkOutputDir(outDir, c.force === true, [video, o.voltsPath]);
       const progress = makeProgress('decoding', c.quiet === true || c.json === true);
       const versions = toolVersionInfo();
+      // Heavy modules (image and plot libraries) load only when the command runs.
+      const [{ analyzeWithProducts }, { finishRun }, { readRunResult }] = await Promise.all([
+        import('../../src/pipeline/analyzeWithProducts.js'),
+        import('../../src/pipeline/finishRun.js'),
+        import('../../src/compare/readRunResult.js'),
+      ]);
       const baseline = c.baseline ? await readRunResult(c.baseline) : undefined;
       let run;
       try {

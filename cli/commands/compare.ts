@@ -8,9 +8,6 @@ import type { Command } from 'commander';
 import { basename, dirname, resolve } from 'node:path';
 import { action } from '../action.js';
 import { KerrError } from '../../src/errors.js';
-import { compareRuns } from '../../src/compare/compareRuns.js';
-import { readRunResult } from '../../src/compare/readRunResult.js';
-import { writeComparison } from '../../src/compare/writeComparison.js';
 
 interface CompareOptions {
   out?: string;
@@ -51,6 +48,12 @@ export function register(program: Command): void {
     .option('--label <name>', 'name of a run in the report; give once per run, in the same order (default: folder name)', collect, [] as string[])
     .action(
       action(async (paths: string[], o: CompareOptions) => {
+        // Plot and image libraries load only when the command runs.
+        const [{ compareRuns }, { readRunResult }, { writeComparison }] = await Promise.all([
+          import('../../src/compare/compareRuns.js'),
+          import('../../src/compare/readRunResult.js'),
+          import('../../src/compare/writeComparison.js'),
+        ]);
         const out = o.out as string;
         if (paths.length < 2) {
           throw new KerrError('BAD_ARGUMENT', `expected at least two results to compare but received ${paths.length}`, { hint: 'Give two or more result.json files or run folders' });

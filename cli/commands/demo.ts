@@ -6,7 +6,6 @@ import type { Command } from 'commander';
 import { relative } from 'node:path';
 import { action } from '../action.js';
 import { formatQuantity } from '../../src/quantity.js';
-import { runDemo } from '../../src/demo/runDemo.js';
 import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
 
@@ -19,6 +18,7 @@ export function register(program: Command): void {
     .option('--quiet', 'no progress')
     .action(action(async (c: { out: string; force?: boolean; quiet?: boolean }) => {
       const started = Date.now();
+      const { runDemo } = await import('../../src/demo/runDemo.js');
       const quiet = c.quiet === true;
       let bar: ReturnType<typeof makeProgress> | null = null;
       let barLabel = '';

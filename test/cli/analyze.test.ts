@@ -73,6 +73,11 @@ describe.skipIf(!have)('kerrtrace analyze (command line)', () => {
       writeFileSync(p, 'time_s,voltage_V\n' + Array.from({ length: 100 }, (_, i) => `${i * 0.2},0`).join('\n') + '\n');
       return [...geometry, '--volts', p];
     }, /never leaves zero/],
+    ['a log with one voltage level', (dir) => {
+      const p = join(dir, 'level.csv');
+      writeFileSync(p, 'time_s,voltage_kV\n' + Array.from({ length: 200 }, (_, i) => `${(i * 0.1).toFixed(1)},5.0`).join('\n') + '\n');
+      return [...geometry, '--volts', p];
+    }, /single voltage level.*Record a ramp/],
     ['a log with a stray header line', (dir) => {
       const p = join(dir, 'stray.csv');
       const lines = readFileSync(volts, 'utf8').split('\n');
