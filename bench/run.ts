@@ -13,6 +13,8 @@
  * Targets (from the project's issue): b/a ≥ 0.85, b/c ≥ 20, peak RSS of (b) < 300 MB.
  * It prints figures and never fails: a missed target is printed as such. The fast cases run
  * KERRTRACE_BENCH_REPEATS times (default 3), interleaved, and the fastest run of each counts.
+ * Wall-clock speed on a shared machine swings with other work, so CPU seconds per frame (all
+ * processes of a case: Node, ffmpeg, ffprobe) are printed too, and b/a is also given from them.
  *
  * More cases: add a BenchCase ({ name, run }) to the list in main(); see timeIt.ts.
  */
@@ -26,6 +28,7 @@ import { promisify } from 'node:util';
 import sharp from 'sharp';
 import { ffmpegPath, locate } from '../src/media/ffmpegPaths.js';
 import type { Rect } from '../src/media/types.js';
+import { childrenCpuS } from './cpuTime.js';
 import { formatResult, runCases, type BenchCase, type CaseOutcome, type CaseResult } from './timeIt.js';
 
 const execFileAsync = promisify(execFile);
@@ -68,8 +71,9 @@ async function benchClip(): Promise<string> {
 
 /** (a) ffmpeg decodes every frame and throws it away. */
 async function decodeToNull(clip: string, frames: number): Promise<CaseOutcome> {
+  const cpuBeforeS = childrenCpuS();
   await execFileAsync(ffmpegPath(), ['-hide_banner', '-nostdin', '-v', 'error', '-i', clip, '-map', '0:v:0', '-vsync', '0', '-f', 'null', '-']);
-  return { frames };
+  return { frames, cpuS: childrenCpuS() - cpuBeforeS };
 }
 
 /** (b) the trace pipeline in a child process; time and peak RSS measured by the child. */
@@ -85,11 +89,13 @@ function traceInChild(clip: string, regions: Rect[], maxFrames?: number, wholeFr
     child.on('error', reject);
     child.on('close', () => {
       try {
-        const r = JSON.parse(out.trim().split('\n').pop() ?? '{}') as { frames?: number; seconds?: number; maxRssKb?: number; crops?: number; error?: string };
+        const r = JSON.parse(out.trim().split('\n').pop() ?? '{}') as { frames?: number; seconds?: number; cpuS?: number; maxRssKb?: number; crops?: number; error?: string };
         if (r.error !== undefined || r.frames === undefined || r.seconds === undefined) throw new Error(r.error ?? `no result from the child: ${out}`);
         const extra: Record<string, string> = { 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` };
         if (r.crops !== undefined) extra.pipes = String(r.crops);
-        resolveOutcome({ frames: r.frames, seconds: r.seconds, extra });
+        const outcome: CaseOutcome = { frames: r.frames, seconds: r.seconds, extra };
+        if (typeof r.cpuS === 'number') outcome.cpuS = r.cpuS;
+        resolveOutcome(outcome);
       } catch (e) {
         reject(e);
       }
@@ -144,9 +150,12 @@ async function main(): Promise<void> {
     return text === undefined ? NaN : Number(text.split(' ')[0]);
   };
   const a = fps('(a)'), b = fps('(b)'), c = fps('(c)');
+  const cpu = (prefix: string): number => results.find((r) => r.name.startsWith(prefix) && r.ok)?.cpuPerFrameS ?? NaN;
+  const cpuRatio = cpu('(a)') / cpu('(b)');
   const rss30 = rssMb('(b)'), rss10 = rssMb('(b10)');
   process.stdout.write('\n');
   process.stdout.write(`${ratioLine('b/a (trace vs decode ceiling)', b / a, '>= 0.85', b / a >= 0.85)}\n`);
+  process.stdout.write(`${ratioLine('  same by CPU per frame (load-free)', cpuRatio, '>= 0.85', cpuRatio >= 0.85)}\n`);
   process.stdout.write(`${ratioLine('b/c (trace vs naive PNG route)', b / c, '>= 20', b / c >= 20)}\n`);
   process.stdout.write(`${ratioLine('peak RSS of (b), MB', rss30, '< 300', rss30 < 300)}\n`);
   process.stdout.write(`${ratioLine('peak RSS 30 s / 10 s prefix', rss30 / rss10, '≈ 1 (flat)', rss30 / rss10 < 1.15)}\n`);

@@ -1,25 +1,35 @@
 /**
- * `kerrtrace stills FOLDER`: a Kerr measurement from photos taken at known voltages. Parses and
- * checks options (mm → m once, here), refuses an existing --out before reading any photo, reads
- * the series (src/stills/readStillsSeries.ts), fits it (src/stills/fitStillsSeries.ts), prints a
- * summary or JSON and, with --out, writes stills.csv and stills.json whole or not at all.
+ * `kerrtrace stills FOLDER --length-mm L --gap-mm D [--volts MAP.csv] [...]`: a Kerr measurement
+ * from photos taken at known voltages, written like an analyze run (result.json with source
+ * "stills", trace.csv, report.html, summary.md, plots/, regions.png, stills.csv).
+ * The amplitude is fixed by --open-level (a number) or --open-photo (measured like the series).
+ * Order: parse and check every option (mm → m once, here), refuse an existing output folder
+ * before any photo is read, read the series (src/stills/readStillsSeries.ts), hash the inputs,
+ * build the run (src/stills/stillsRunResult.ts), write the folder whole or not at all
+ * (writeRunDir), then print the summary or result.json.
  */
 import type { Command } from 'commander';
-import { join } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
+import sharp from 'sharp';
 import { action } from '../action.js';
+import { makeProgress } from '../progress.js';
 import { toolVersion } from '../toolVersion.js';
-import { KerrError } from '../../src/errors.js';
+import { summaryText } from './analyze.js';
+import { KerrError, invalid, isKerrError } from '../../src/errors.js';
 import type { Rect, TransferName } from '../../src/media/types.js';
 import { parseRect } from '../../src/measure/rect.js';
 import { parseTransfer } from '../../src/core/camera/transfer.js';
-import { checkOutputDir, stageOutputDir } from '../../src/io/outputDir.js';
+import { checkOutputDir } from '../../src/io/outputDir.js';
 import { sha256File } from '../../src/io/sha256File.js';
 import { parseNumberOption } from '../../src/design/parseNumberOption.js';
+import { writeRunDir, jsonSafe } from '../../src/pipeline/writeRun.js';
+import { writeRunReport } from '../../src/report/writeRunReport.js';
+import type { InputFile } from '../../src/result/schema.js';
 import { readStillsSeries, type StillsOptions } from '../../src/stills/readStillsSeries.js';
-import { fitStillsSeries } from '../../src/stills/fitStillsSeries.js';
-import { formatStillsSummary } from '../../src/stills/formatStillsSummary.js';
+import { stillsRunResult } from '../../src/stills/stillsRunResult.js';
 import { stillsCsv } from '../../src/stills/stillsCsv.js';
-import { stillsRecord } from '../../src/stills/stillsRecord.js';
+import { stillsRegionOverlay } from '../../src/stills/stillsRegionOverlay.js';
+import { formatPhotoTable } from '../../src/stills/formatPhotoTable.js';
 
 interface StillsCliOptions {
   volts?: string;
@@ -27,13 +37,20 @@ interface StillsCliOptions {
   effectiveLengthMm?: string;
   gapMm?: string;
   polariserAngleDeg?: string;
+  staticRetardanceRad?: string;
   roi?: string;
   darkRoi?: string;
   referenceRoi?: string;
   transfer?: string;
+  openLevel?: string;
+  openPhoto?: string;
+  label?: string;
   out?: string;
   force?: boolean;
   json?: boolean;
+  quiet?: boolean;
+  robust?: boolean;
+  report?: boolean;
 }
 
 function required(text: string | undefined, option: string, what: string): string {
@@ -41,81 +58,137 @@ function required(text: string | undefined, option: string, what: string): strin
   return text;
 }
 
+/** Default output folder: beside the photo folder, "<folder name>.kerrtrace". */
+export function defaultStillsOutDir(folder: string): string {
+  const abs = resolve(folder);
+  return join(dirname(abs), `${basename(abs)}.kerrtrace`);
+}
+
+/**
+ * analyze's summary in the words of a photo series: there is no sync offset (each photo carries
+ * its voltage) and the frames are photos.
+ */
+export function stillsSummaryText(analyzeSummary: string): string {
+  return analyzeSummary
+    .replace(/^( {2}sync offset {10}).*$/m, '$1none: each photo carries its voltage')
+    .replace(/^( {2})frames used( +)/m, '$1photos used$2');
+}
+
 /** Registers the `stills` command. */
 export function register(program: Command): void {
   program
     .command('stills')
-    .description('Kerr constant and half-wave voltage from a folder of photos taken at known voltages (JPEG, PNG, TIFF).')
+    .description('Kerr constant and half-wave voltage from a folder of photos taken at known voltages (JPEG, PNG, TIFF)')
     .argument('<folder>', 'folder holding the photos')
     .option('--volts <csv>', 'CSV with a file column and a voltage column (default: voltages from the file names, e.g. step07_12.5kV.jpg)')
     .option('--length-mm <L>', 'electrode length along the beam, mm')
-    .option('--effective-length-mm <L>', 'optical effective length, mm (default the electrode length)')
     .option('--gap-mm <d>', 'electrode gap, mm')
-    .option('--polariser-angle-deg <deg>', 'polariser angle to the field, degrees (crossed analyser)', '45')
+    .option('--out <dir>', 'output folder (default: <folder name>.kerrtrace beside the photo folder)')
+    .option('--force', 'replace an existing output folder')
     .option('--roi <x,y,w,h>', 'beam region in pixels (default: the whole photo)')
     .option('--dark-roi <x,y,w,h>', 'a region with no beam: its level is subtracted')
     .option('--reference-roi <x,y,w,h>', 'a region of constant brightness (grey card) to track exposure when EXIF is missing')
+    .option('--open-photo <file>', 'a photo with the analyser parallel and no field, same camera position: its level fixes the amplitude')
+    .option('--open-level <X>', 'open level in the linear units of trace.csv (fixes the amplitude)')
+    .option('--effective-length-mm <L>', 'optical effective length, mm (default: --length-mm)')
+    .option('--polariser-angle-deg <deg>', 'polariser angle to the field, degrees, analyser crossed (default 45)')
+    .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
     .option('--transfer <name>', 'srgb, bt709, linear or gamma:G (default: srgb for 8-bit and PNG, linear for 16-bit TIFF)')
-    .option('--out <dir>', 'write stills.csv and stills.json into this folder')
-    .option('--force', 'replace an existing --out folder')
-    .option('--json', 'print the JSON record instead of the summary')
+    .option('--label <text>', 'a name for this run in reports and comparisons (default: the folder name)')
+    .option('--no-robust', 'plain least squares instead of Huber weighting')
+    .option('--no-report', 'skip report.html, plots and summary.md')
+    .option('--json', 'print result.json instead of the summary')
+    .option('--quiet', 'no progress bar')
     .action(
       action(async (folder: string, o: StillsCliOptions) => {
         // Settings first, checked where they enter.
-        const lengthM = parseNumberOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'electrode length in mm', 'positive') * 1e-3;
-        const gapM = parseNumberOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'electrode gap in mm', 'positive') * 1e-3;
-        const effectiveLengthM = o.effectiveLengthMm === undefined ? lengthM : parseNumberOption(o.effectiveLengthMm, '--effective-length-mm', 'effective length in mm', 'positive') * 1e-3;
+        const lengthMm = parseNumberOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'electrode length in mm', 'positive');
+        const gapMm = parseNumberOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'electrode gap in mm', 'positive');
+        const effectiveLengthMm = o.effectiveLengthMm === undefined ? lengthMm : parseNumberOption(o.effectiveLengthMm, '--effective-length-mm', 'effective length in mm', 'positive');
+        if (effectiveLengthMm < lengthMm) {
+          throw invalid(`an effective length at least the electrode length (${lengthMm} mm)`, '--effective-length-mm', o.effectiveLengthMm, 'Fringe fields only lengthen the cell');
+        }
         const polariserAngleDeg = parseNumberOption(o.polariserAngleDeg ?? '45', '--polariser-angle-deg', 'angle in degrees', 'finite');
-        const opts: StillsOptions = {};
-        if (o.volts !== undefined) opts.voltsPath = o.volts;
+        const staticRetardanceRad = o.staticRetardanceRad === undefined ? undefined : parseNumberOption(o.staticRetardanceRad, '--static-retardance-rad', 'retardance in rad', 'finite');
+        const openLevel = o.openLevel === undefined ? undefined : parseNumberOption(o.openLevel, '--open-level', 'open level in the linear units of trace.csv', 'positive');
+        if (openLevel !== undefined && o.openPhoto !== undefined) {
+          throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-level and --open-photo', { path: '--open-photo', hint: 'They are two ways to give the same open level' });
+        }
         const rect = (text: string | undefined, option: string): Rect | undefined => (text === undefined ? undefined : parseRect(text, option));
         const roi = rect(o.roi, '--roi');
         const darkRoi = rect(o.darkRoi, '--dark-roi');
         const referenceRoi = rect(o.referenceRoi, '--reference-roi');
-        if (roi) opts.roi = roi;
-        if (darkRoi) opts.darkRoi = darkRoi;
-        if (referenceRoi) opts.referenceRoi = referenceRoi;
         const transfer: TransferName | undefined = o.transfer === undefined ? undefined : parseTransfer(o.transfer, '--transfer');
-        if (transfer) opts.transfer = transfer;
-        if (o.out !== undefined) checkOutputDir(o.out, o.force === true, [folder, ...(o.volts ? [o.volts] : [])]);
+        if (o.label !== undefined && o.label.trim() === '') throw invalid('a non-empty label', '--label', o.label);
+        const outDir = o.out ?? defaultStillsOutDir(folder);
+        checkOutputDir(outDir, o.force === true, [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])]);
 
         // The work.
-        const series = await readStillsSeries(folder, opts);
-        const fit = fitStillsSeries({ voltageV: series.voltageV, intensity: series.intensity, clippedFraction: series.clippedFraction, effectiveLengthM, gapM, polariserAngleDeg });
-        const cell = { lengthM, effectiveLengthM, gapM, polariserAngleDeg };
-        const needRecord = o.json === true || o.out !== undefined;
-        const record = needRecord
-          ? stillsRecord({
-            series,
-            fit,
-            folder,
-            createdAt: new Date().toISOString(),
-            toolVersion: toolVersion(),
-            options: { ...o },
-            cell,
-            inputs: {
-              photos: await Promise.all(series.files.map(async (f) => ({ path: join(folder, f), sha256: await sha256File(join(folder, f)) }))),
-              volts: o.volts === undefined ? null : { path: o.volts, sha256: await sha256File(o.volts) },
-            },
-          })
-          : null;
-
-        if (o.out !== undefined && record !== null) {
-          const staged = stageOutputDir(o.out, o.force === true);
-          try {
-            staged.write('stills.csv', stillsCsv(series, fit));
-            staged.write('stills.json', `${JSON.stringify(record, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
-            staged.commit();
-          } catch (err) {
-            staged.abandon();
-            throw err;
-          }
+        const readOptions: StillsOptions = {};
+        if (o.volts !== undefined) readOptions.voltsPath = o.volts;
+        if (roi) readOptions.roi = roi;
+        if (darkRoi) readOptions.darkRoi = darkRoi;
+        if (referenceRoi) readOptions.referenceRoi = referenceRoi;
+        if (transfer) readOptions.transfer = transfer;
+        if (o.openPhoto !== undefined) readOptions.openPhotoPath = o.openPhoto;
+        const progress = makeProgress('reading photos', o.quiet === true || o.json === true);
+        let series;
+        try {
+          series = await readStillsSeries(folder, { ...readOptions, onProgress: (done, total) => progress.update(done, total) });
+        } finally {
+          progress.stop();
         }
-        if (o.json === true && record !== null) {
-          process.stdout.write(`${JSON.stringify(record, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
+        const amplitude = openLevel ?? series.openPhoto?.intensity;
+        const stills: InputFile[] = [];
+        for (const f of series.files) stills.push({ path: join(folder, f), sha256: await sha256File(join(folder, f)) });
+        const run = stillsRunResult({
+          series,
+          cell: { lengthM: lengthMm * 1e-3, effectiveLengthM: effectiveLengthMm * 1e-3, gapM: gapMm * 1e-3, polariserAngleDeg },
+          fitOptions: {
+            robust: o.robust !== false,
+            ...(amplitude !== undefined ? { openLevel: amplitude } : {}),
+            ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}),
+          },
+          label: o.label ?? basename(resolve(folder)),
+          createdAt: new Date().toISOString(),
+          tool: { name: 'kerrtrace', version: toolVersion(), ffmpegVersion: null, node: process.version },
+          inputs: { stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}) },
+          options: {
+            folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust: o.robust !== false,
+            ...(o.volts !== undefined ? { voltsPath: o.volts } : {}),
+            ...(roi ? { roi } : {}), ...(darkRoi ? { darkRoi } : {}), ...(referenceRoi ? { referenceRoi } : {}),
+            ...(transfer ? { transfer } : {}), ...(openLevel !== undefined ? { openLevel } : {}),
+            ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}),
+            ...(o.label !== undefined ? { label: o.label } : {}),
+            ...(series.openPhoto
+              ? { openPhoto: { path: series.openPhoto.path, sha256: await sha256File(series.openPhoto.path), level: series.openPhoto.intensity, exposureRelative: series.openPhoto.exposureRelative } }
+              : {}),
+            imageDecoder: `sharp ${sharp.versions.sharp ?? 'unknown'} (libvips ${sharp.versions.vips})`,
+          },
+        });
+        const { result, trace } = run;
+
+        // regions.png is a convenience: a photo that will not decode again only costs the picture.
+        let regionsPng: Buffer | undefined;
+        try {
+          regionsPng = await stillsRegionOverlay(folder, series, trace.map((r) => r.used));
+        } catch (err) {
+          if (!isKerrError(err)) throw err;
+          result.warnings.push({ code: 'overlay-photo', message: `regions.png was not drawn: ${err.message}` });
+        }
+        const written = await writeRunDir(outDir, o.force === true, {
+          result,
+          trace,
+          extraFiles: { 'stills.csv': stillsCsv(series), ...(regionsPng ? { 'regions.png': regionsPng } : {}) },
+          ...(o.report !== false
+            ? { writeReports: async (dir, r) => (await writeRunReport(dir, { result: r, trace, ...(regionsPng ? { images: { frameWithRegionsPng: regionsPng } } : {}) })).files }
+            : {}),
+        });
+        if (o.json === true) {
+          process.stdout.write(`${JSON.stringify(result, jsonSafe, 2)}\n`);
         } else {
-          process.stdout.write(formatStillsSummary(series, fit, { folder, effectiveLengthM, gapM, polariserAngleDeg }));
-          if (o.out !== undefined) process.stdout.write(`\nWrote ${join(o.out, 'stills.csv')} and ${join(o.out, 'stills.json')}\n`);
+          process.stdout.write(`${formatPhotoTable(series, trace)}\n`);
+          process.stdout.write(stillsSummaryText(summaryText(result, written)));
         }
       }),
     );

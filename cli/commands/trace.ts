@@ -112,7 +112,11 @@ export function register(program: Command): void {
       if (c.out !== undefined) {
         writeFileAtomic(c.out, csv, c.force === true);
       } else {
-        process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code !== 'EPIPE') throw e; });
+        process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+          if (e.code === 'EPIPE') return; // the reader stopped early (e.g. piped into head): not an error
+          process.stderr.write(`kerrtrace: could not write the CSV to standard output (${e.code ?? e.message})\n`);
+          process.exitCode = 3;
+        });
         process.stdout.write(csv);
       }
       if (!quiet) {

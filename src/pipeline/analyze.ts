@@ -23,7 +23,7 @@ import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
-import { findBeam, cellBoxMean, type CellBox } from '../core/regions/findBeam.js';
+import { findBeam, type CellBox } from '../core/regions/findBeam.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
@@ -295,6 +295,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const surroundRaw = new Float64Array(nFrames);
   let haveSurround = true;
   const beamClipped = new Float64Array(nFrames);
+  /** Full-resolution series of [beam, a0, a1, b1] when the beam was found automatically. */
+  let autoSeries: RegionSeries[] | null = null;
   /** Per-frame means of [beam, a0, a1, b1]. */
   let rectMeans: (f: number) => [number, number, number, number];
   if (o.roi) {
@@ -314,11 +316,17 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
     beamRect = cellsToRect(found.beam, grid.step);
     geom = { beam: beamRect, a0: cellsToRect(boxes[1], grid.step), a1: cellsToRect(boxes[2], grid.step), b1: cellsToRect(boxes[3], grid.step) };
-    for (let f = 0; f < nFrames; f++) beamRaw[f] = cellBoxMean(grid.data, f * cells, gw, found.beam);
-    rectMeans = (f) => {
-      const off = f * cells;
-      return [beamRaw[f]!, cellBoxMean(grid.data, off, gw, boxes[1]), cellBoxMean(grid.data, off, gw, boxes[2]), cellBoxMean(grid.data, off, gw, boxes[3])];
-    };
+    // The grid reads luminance as if every pixel were grey, which is fast and fine for finding the
+    // beam but not proportional for coloured light; a second pass reads the beam and its rings at
+    // full resolution with the full colour decoding (the decode is the cost; the meter is cheap).
+    const second = await decodePass(o.videoPath, info, decoding, [beamRect, geom.a0, geom.a1, geom.b1], null, hooks.onProgress ? (d, t) => hooks.onProgress!('measuring the beam', d, t) : undefined);
+    if (second.frames !== nFrames) {
+      throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
+    }
+    autoSeries = second.regions;
+    beamRaw.set(second.regions[0]!.luma);
+    beamClipped.set(second.regions[0]!.clipped);
+    rectMeans = (f) => [beamRaw[f]!, second.regions[1]!.luma[f]!, second.regions[2]!.luma[f]!, second.regions[3]!.luma[f]!];
     warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
   }
   if (o.darkRoi) {
@@ -394,12 +402,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       beamS = pass.regions[idx.beam!]!;
       ringS = o.darkRoi ? [pass.regions[idx.dark!]!] : geom ? [pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [];
     } else {
-      // The beam was found on the luminance grid; one more pass reads its colour at full resolution.
-      const rects = [beamRect, ...(o.darkRoi ? [o.darkRoi] : haveSurround && geom ? [geom.a0, geom.a1, geom.b1] : [])];
-      const second = await decodePass(o.videoPath, info, decoding, rects, null, hooks.onProgress ? (d, t) => hooks.onProgress!('colour pass', d, t) : undefined);
-      if (second.frames !== nFrames) throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
-      beamS = second.regions[0]!;
-      ringS = second.regions.slice(1);
+      beamS = autoSeries![0]!;
+      ringS = o.darkRoi ? [pass.regions[idx.dark!]!] : autoSeries!.slice(1);
     }
     const coef = !o.darkRoi && haveSurround && geom ? surroundWeights(geom).coefficients : null;
     const channel = (k: 'r' | 'g' | 'b'): Float64Array => Float64Array.from(beamS[k], (v, f) => {

@@ -5,6 +5,10 @@
  * floors), new events (particle spikes grouped per event, exposure jumps), an exposure-drift
  * check, the up/down (hysteresis) comparison and the liquid's resistivity from the current column.
  *
+ * The halo-to-core ratio divides by the core's modulation amplitude in luminance: the maps'
+ * grey-luma units are scaled by `gridLuminanceScale`, read on the rectangles whose combination is
+ * the fit's beam intensity (beam minus surround, from `out.measured`; without it κ = 1).
+ *
  * Orchestration only: the maths is in src/core/scatter (one idea per file, each documented with
  * its formula); this file reads the voltage log when it needs the current column and asks ffmpeg
  * for one frame. It writes nothing: the caller stores `files` and `images` beside result.json and
@@ -200,11 +204,15 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   const scatter: NonNullable<RunResult['scatter']> = {};
   // The maps are in the grid's grey-luma units; the beam intensity of the fit (region meter) is
   // luminance. Their ratio on the beam region puts the core amplitude in the halo's unit.
-  const lumaScale = beamIntensityTerms(out) === null ? null : gridLuminanceScale({
+  const terms = beamIntensityTerms(out);
+  const lumaScale = terms === null ? null : gridLuminanceScale({
     modulatedMap: maps.modulatedMap, modulatedStdErr: maps.modulatedStdErr, gridWidth: gw, gridHeight: gh, stepPx: step,
-    terms: beamIntensityTerms(out)!, intensity, modulation, usable,
+    terms, intensity, modulation, usable,
   });
-  const halo = regions ? haloToCoreRatio(maps, regions, lumaScale ?? undefined) : null;
+  const halo = regions ? haloToCoreRatio(maps, regions, {
+    ...(lumaScale ? { coreScale: lumaScale } : {}),
+    floorFraction: result.floorFraction.value,
+  }) : null;
   if (halo) scatter.haloToCoreRatio = halo.ratio;
   else if (regions) warn('no-far-dark', 'the beam leaves no dark area far from it on the maps, so the halo-to-core ratio is not reported; frame the cell with some dark background around it', 'camera-still');
   if (Number.isFinite(particles.ratePerMinute.value)) scatter.particleEventRate = particles.ratePerMinute;

@@ -6,8 +6,14 @@
  * T_0 = Jones transmission at zero field, i.e. with the static retardance only):
  * - floorFraction = (F + leak + A·T_0)/A: zero-field beam light above its local surround over A
  *   (the halo lies under beam and surround alike and is not floor).
- * - haloToCoreRatio = S·exp(−r²/2σh²)/A with r the distance from the beam centre to the nearest
- *   ROI edge: the halo light just outside the beam over A.
+ * - haloToCoreRatio = S·(H̄_band − H_far)/A: the static forward-scatter light just outside the
+ *   beam, above the far dark level, over the core's modulation amplitude (the measurement's
+ *   definition, src/core/scatter/haloToCoreRatio.ts). "Just outside the beam" is the band of
+ *   pixels where the beam profile G is below 5 % of its peak but within w = r₅₀ = √(N₅₀/π) px of
+ *   a pixel where it is not (N₅₀ pixels have G ≥ 0.5: r₅₀ is the half-peak radius); for a round
+ *   beam the ring r₅ < r ≤ r₅ + r₅₀. H̄_band is the mean of H over the band, H_far the least H in
+ *   the frame (the far dark). Beam, halo and A share the light's colour, so the ratio is the same
+ *   in any luma weighting; the grey ambient cancels in the difference.
  * - contrastRatio = highest / lowest beam light above its surround, A·T(V) + F + leak, over the
  *   frames of the clip (Rec. 709 luma weights of the channels, which matters only with dispersion).
  * - halfWaveVoltageV = d/√(2·B·L_eff); maxVoltageOverHalfWave = max |V| at frame times / V_π.
@@ -44,6 +50,62 @@ export interface TruthInputs {
 const round = (x: number, digits = 12): number => Number(x.toPrecision(digits));
 const rectArray = (r: Rect): [number, number, number, number] => [r.x, r.y, r.w, r.h];
 
+export interface HaloBand {
+  /** Mean of the halo image H (peak 1) over the band just outside the beam. */
+  meanHalo: number;
+  /** The least H in the frame: the halo left in the far dark. */
+  farHalo: number;
+  /** Band width w = r₅₀, px. */
+  widthPx: number;
+  pixels: number;
+}
+
+/**
+ * The band "just outside the beam" on the pixel grid (see the file comment): G < 0.05, within
+ * w = √(N₅₀/π) of a pixel with G ≥ 0.05, and the mean and least of H. Only footprint pixels with a
+ * 4-neighbour outside the footprint can be nearest, so only they are searched.
+ */
+export function haloBand(scene: Pick<Scene, 'width' | 'height' | 'beam' | 'halo'>): HaloBand {
+  const { width: w, height: h, beam, halo } = scene;
+  const FOOT = 0.05;
+  let coreCount = 0;
+  let x0 = w, y0 = h, x1 = -1, y1 = -1;
+  let farHalo = Infinity;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      const g = beam[i]!;
+      farHalo = Math.min(farHalo, halo[i]!);
+      if (g >= 0.5) coreCount++;
+      if (g >= FOOT) { x0 = Math.min(x0, x); x1 = Math.max(x1, x); y0 = Math.min(y0, y); y1 = Math.max(y1, y); }
+    }
+  }
+  const widthPx = Math.sqrt(coreCount / Math.PI);
+  if (x1 < 0 || !Number.isFinite(farHalo)) return { meanHalo: 0, farHalo: Number.isFinite(farHalo) ? farHalo : 0, widthPx, pixels: 0 };
+  const inside = (x: number, y: number) => x >= 0 && x < w && y >= 0 && y < h && beam[y * w + x]! >= FOOT;
+  const edge: number[] = [];
+  for (let y = y0; y <= y1; y++) {
+    for (let x = x0; x <= x1; x++) {
+      if (inside(x, y) && (!inside(x - 1, y) || !inside(x + 1, y) || !inside(x, y - 1) || !inside(x, y + 1))) edge.push(x, y);
+    }
+  }
+  const reach = Math.ceil(widthPx);
+  const limit = widthPx * widthPx + 1e-9;
+  let sum = 0;
+  let pixels = 0;
+  for (let y = Math.max(0, y0 - reach); y <= Math.min(h - 1, y1 + reach); y++) {
+    for (let x = Math.max(0, x0 - reach); x <= Math.min(w - 1, x1 + reach); x++) {
+      if (inside(x, y)) continue;
+      let near = false;
+      for (let k = 0; k < edge.length && !near; k += 2) near = (x - edge[k]!) ** 2 + (y - edge[k + 1]!) ** 2 <= limit;
+      if (!near) continue;
+      sum += halo[y * w + x]!;
+      pixels++;
+    }
+  }
+  return { meanHalo: pixels > 0 ? sum / pixels : 0, farHalo, widthPx, pixels };
+}
+
 export function buildTruth(input: TruthInputs): Record<string, unknown> {
   const { scene, clock, frames, log } = input;
   const scenario = scene.scenario;
@@ -56,11 +118,10 @@ export function buildTruth(input: TruthInputs): Record<string, unknown> {
   const staticLight = amplitude * zeroFieldT;
   const floorLevel = dirt.scatterFloor + scene.polariserLeak + staticLight;
 
-  const cx = light.centreXPx;
-  const cy = light.centreYPx;
   const roi = scene.roi;
-  const edgeDistancePx = Math.min(cx - roi.x, roi.x + roi.w - 1 - cx, cy - roi.y, roi.y + roi.h - 1 - cy);
-  const haloEdge = dirt.haloPeak * Math.exp(-(edgeDistancePx * edgeDistancePx) / (2 * dirt.haloSigmaPx * dirt.haloSigmaPx));
+  const band = haloBand(scene);
+  const haloNear = dirt.haloPeak * band.meanHalo;
+  const haloFar = dirt.haloPeak * band.farHalo;
 
   // beam light above surround, luma-weighted over channels, at every frame
   const w = light.channelWeights;
@@ -112,7 +173,7 @@ export function buildTruth(input: TruthInputs): Record<string, unknown> {
     quarterWaveVoltageV: round(halfWaveV / Math.SQRT2),
     offsetS: logger.clockOffsetS,
     floorFraction: round(floorLevel / amplitude),
-    haloToCoreRatio: round(haloEdge / amplitude),
+    haloToCoreRatio: round((haloNear - haloFar) / amplitude),
     contrastRatio: contrastRatio === null ? null : round(contrastRatio),
     roi: rectArray(roi),
     ...(scene.referenceRoi ? { referenceRoi: rectArray(scene.referenceRoi), referenceRadiance: camera.referencePatch!.radiance } : {}),
@@ -132,7 +193,10 @@ export function buildTruth(input: TruthInputs): Record<string, unknown> {
       floorTotal: round(floorLevel),
       haloPeak: dirt.haloPeak,
       haloSigmaPx: dirt.haloSigmaPx,
-      haloAtRoiEdge: round(haloEdge),
+      haloNearBeam: round(haloNear),
+      haloFarDark: round(haloFar),
+      haloBandWidthPx: round(band.widthPx, 6),
+      haloBandPixels: band.pixels,
       ambient: camera.ambient,
     },
     cell: {

@@ -17,7 +17,11 @@
  *    the sRGB curve), linearise (default sRGB for 8-bit images and 16-bit PNG, linear for 16-bit
  *    TIFF; `transfer` overrides all), measure regions (measureImageRegions, Rec. 709 luminance);
  * 6. intensity = (roi − dark) / relative exposure (linear units, 1 = full-scale white of the
- *    first readable photo's exposure).
+ *    first readable photo's exposure);
+ * 7. the open photo (`openPhotoPath`, analyser parallel, no field), when given, is measured the
+ *    same way and put on the same scale: its exposure relative to the first readable photo comes
+ *    from the same basis (EXIF pair, or its reference region; taken as equal when the series has
+ *    neither, with a note). Its intensity is the open level I_amp.
  * Clipping: a pixel with any channel at or above `clipLevel` of full scale (default 250/255)
  * counts as clipped; photos with more than 1 % of the beam region clipped are named in a warning.
  * Rule for bad photos (skip and count, never drop silently): a photo that cannot be decoded stays
@@ -28,20 +32,23 @@
  *
  * Edge module: reads files. Throws KerrError with one line and a hint for: no photos, HEIC,
  * photos of different sizes, unsupported bit depth, a CSV naming missing files, a file given two
- * voltages, names without a voltage, regions outside the frame (BAD_REGION), no readable photo.
+ * voltages, names without a voltage, regions outside the frame (BAD_REGION), no readable photo,
+ * and (BAD_ARGUMENT with path --open-photo) an open photo that is missing, unreadable, of another
+ * size, clipped, without the EXIF the series uses, not brighter than its dark region, or one of
+ * the series' photos.
  * @example const s = await readStillsSeries('run1', { roi: { x: 100, y: 80, w: 40, h: 40 } }); s.intensity
  */
-import { readFile } from 'node:fs/promises';
-import { extname, join } from 'node:path';
+import { access, readFile } from 'node:fs/promises';
+import { basename, dirname, extname, join, resolve } from 'node:path';
 import sharp from 'sharp';
 import exifr from 'exifr';
 import { KerrError } from '../errors.js';
-import type { Rect, TransferName } from '../media/types.js';
+import type { Rect, RegionSample, TransferName } from '../media/types.js';
 import type { RunWarning } from '../result/schema.js';
 import type { GuideAnchor } from '../report/guide.js';
 import { validateRect } from '../measure/rect.js';
 import { exposureGains } from '../measure/exposure.js';
-import { listStillPhotos, type PhotoFormat } from './listStillPhotos.js';
+import { HEIC_HINT, listStillPhotos, type PhotoFormat } from './listStillPhotos.js';
 import { parseStillsMap } from './parseStillsMap.js';
 import { voltageFromFileName } from './voltageFromFileName.js';
 import { relativeExposure, type ExifExposure } from './relativeExposure.js';
@@ -62,6 +69,12 @@ export interface StillsOptions {
   transfer?: TransferName;
   /** Clipping threshold as a fraction of full scale; default 250/255. */
   clipLevel?: number;
+  /**
+   * A photo with the analyser parallel and no field (same camera position; any exposure that the
+   * series' exposure basis can relate to the first photo): measured like the series to give the
+   * open level.
+   */
+  openPhotoPath?: string;
   /** Called after each photo is decoded (done, total). */
   onProgress?: (done: number, total: number) => void;
 }
@@ -81,6 +94,8 @@ export interface StillsSeries {
   notes: string[];
   roi: Rect;
   roiIsWholeFrame: boolean;
+  darkRoi: Rect | null;
+  referenceRoi: Rect | null;
   /** Mean linear luminance of the beam region before dark subtraction and exposure normalisation. */
   roiLinear: Float64Array;
   darkLinear: Float64Array | null;
@@ -98,6 +113,16 @@ export interface StillsSeries {
   captureTimeS: Float64Array | null;
   /** Files in the folder that were not used, with the reason. */
   leftOut: Array<{ file: string; reason: string }>;
+  /** The open photo, when one was given: its intensity on the series' scale is the open level. */
+  openPhoto: OpenPhoto | null;
+}
+
+export interface OpenPhoto {
+  path: string;
+  /** (roi − dark) / exposureRelative, linear units: the open level I_amp. */
+  intensity: number;
+  exposureRelative: number;
+  clippedFraction: number;
 }
 
 /** Relative spread of the reference region above which exposure "seems to vary". */
@@ -156,6 +181,8 @@ interface PhotoInfo {
   width: number;
   height: number;
   maxCode: 255 | 65535;
+  /** Format by content (sharp), null for anything but JPEG, PNG and TIFF. */
+  format: PhotoFormat | null;
 }
 
 const messageOf = (e: unknown): string => (e instanceof Error ? e.message : String(e)).split('\n')[0]!.trim();
@@ -172,7 +199,8 @@ async function photoInfo(path: string, file: string): Promise<PhotoInfo | string
     throw new KerrError('BAD_ARGUMENT', `${file} has ${meta.depth ?? 'unknown'} samples; kerrtrace reads 8- and 16-bit images`, { path, hint: 'Export the photos as 8-bit JPEG/PNG or 16-bit PNG/TIFF' });
   }
   const size = meta.autoOrient ?? { width: meta.width, height: meta.height };
-  return { width: size.width, height: size.height, maxCode: meta.depth === 'ushort' ? 65535 : 255 };
+  const format = meta.format === 'jpeg' || meta.format === 'png' || meta.format === 'tiff' ? meta.format : null;
+  return { width: size.width, height: size.height, maxCode: meta.depth === 'ushort' ? 65535 : 255, format };
 }
 
 type PhotoExif = ExifExposure & ExifCaptureTime;
@@ -202,6 +230,16 @@ async function readExif(path: string): Promise<PhotoExif> {
 
 function defaultTransfer(format: PhotoFormat, maxCode: 255 | 65535): TransferName {
   return format === 'tiff' && maxCode === 65535 ? 'linear' : 'srgb';
+}
+
+/** Decodes one photo (orientation applied, ICC ignored) and measures the regions. Throws what sharp throws. */
+async function measurePhoto(path: string, maxCode: 255 | 65535, lut: Float64Array, regions: Rect[], clipCode: number): Promise<RegionSample[]> {
+  const pipeline = sharp(path, { ignoreIcc: true }).autoOrient().removeAlpha();
+  const { data, info } = maxCode === 65535
+    ? await pipeline.toColourspace('rgb16').raw({ depth: 'ushort' }).toBuffer({ resolveWithObject: true })
+    : await pipeline.toColourspace('srgb').raw().toBuffer({ resolveWithObject: true });
+  const samples = maxCode === 65535 ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
+  return measureImageRegions({ data: samples, width: info.width, height: info.height, channels: info.channels }, regions, lut, clipCode);
 }
 
 export async function readStillsSeries(folder: string, opts: StillsOptions = {}): Promise<StillsSeries> {
@@ -256,6 +294,19 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     }
   }
 
+  // The open photo: cheap checks now, pixels at the end.
+  if (opts.openPhotoPath !== undefined) {
+    const path = opts.openPhotoPath;
+    try {
+      await access(path);
+    } catch {
+      throw new KerrError('FILE_NOT_FOUND', `the open photo ${path} does not exist`, { path: '--open-photo', hint: 'Give the photo taken with the analyser parallel and no field' });
+    }
+    if (resolve(dirname(path)) === resolve(folder) && photos.includes(basename(path))) {
+      throw new KerrError('BAD_ARGUMENT', `the open photo ${basename(path)} is also one of the series' photos`, { path: '--open-photo', hint: 'Move the open photo out of the folder (or leave it out of the --volts CSV), so it is not fitted as a point of the sweep' });
+    }
+  }
+
   // 3. Sizes and depths; a photo that cannot be read is skipped and counted.
   const n = photos.length;
   const unreadable: Array<string | null> = new Array<string | null>(n).fill(null);
@@ -287,7 +338,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
   if (opts.darkRoi) validateRect(opts.darkRoi, width, height, '--dark-roi');
   if (opts.referenceRoi) validateRect(opts.referenceRoi, width, height, '--reference-roi');
   if (roiIsWholeFrame) warn('whole-photo-region', 'no --roi given: the whole photo was measured; give the beam region with --roi x,y,w,h for a cleaner signal');
-  if (!opts.darkRoi) warn('no-dark-region', 'no --dark-roi given: the black level and ambient light stay in the intensity, so the fit\'s floor (and the floor fraction and contrast ratio) include them; give a region with no beam with --dark-roi');
+  if (!opts.darkRoi) warn('no-dark-region', 'no --dark-roi given: the black level and ambient light stay in the intensity, so the fitted floor, the floor fraction and the contrast ratio include them; give a region with no beam with --dark-roi');
 
   // 4. EXIF: exposure settings and capture times.
   const exif: PhotoExif[] = [];
@@ -328,21 +379,15 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
       lut = codeToLinearLut(transfers[i]!, maxCode);
       luts.set(key, lut);
     }
-    let decoded;
+    let measured: RegionSample[];
     try {
-      const pipeline = sharp(path, { ignoreIcc: true }).autoOrient().removeAlpha();
-      decoded = maxCode === 65535
-        ? await pipeline.toColourspace('rgb16').raw({ depth: 'ushort' }).toBuffer({ resolveWithObject: true })
-        : await pipeline.toColourspace('srgb').raw().toBuffer({ resolveWithObject: true });
+      measured = await measurePhoto(path, maxCode, lut, regions, Math.round(clipLevel * maxCode));
     } catch (e) {
       unreadable[i] = messageOf(e);
       bitDepths[i] = null;
       opts.onProgress?.(i + 1, n);
       continue;
     }
-    const { data, info: decodedInfo } = decoded;
-    const samples = maxCode === 65535 ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
-    const measured = measureImageRegions({ data: samples, width: decodedInfo.width, height: decodedInfo.height, channels: decodedInfo.channels }, regions, lut, Math.round(clipLevel * maxCode));
     roiLinear[i] = measured[0]!.luma;
     clippedFraction[i] = measured[0]!.clippedFraction;
     if (darkLinear) darkLinear[i] = measured[1]!.luma;
@@ -396,6 +441,49 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
   if (clippedPhotos.length > 0) {
     warn('clipping', `${clippedPhotos.length} photo(s) have more than ${percent(CLIPPED_WARNING_FRACTION)} of the beam region clipped (${listNames(clippedPhotos)}): their intensity reads low and they were left out of the fit; lower the exposure or add an ND filter`, 'avoid-clipping');
   }
+  // 7. The open photo, measured like the series and put on its exposure scale.
+  let openPhoto: OpenPhoto | null = null;
+  if (opts.openPhotoPath !== undefined) {
+    const path = opts.openPhotoPath;
+    const fail = (message: string, hint: string): KerrError => new KerrError('BAD_ARGUMENT', message, { path: '--open-photo', hint });
+    const info = await photoInfo(path, basename(path));
+    if (typeof info === 'string' || info.format === null) {
+      throw fail(`the open photo ${path} could not be read as a JPEG, PNG or TIFF photo${typeof info === 'string' ? ` (${info})` : ''}`, HEIC_HINT);
+    }
+    if (info.width !== width || info.height !== height) {
+      throw fail(`the open photo is ${info.width}x${info.height} but the series is ${width}x${height}`, 'Take the open photo from the same camera position, at the same size and orientation');
+    }
+    const transfer = opts.transfer ?? defaultTransfer(info.format, info.maxCode);
+    let measured: RegionSample[];
+    try {
+      measured = await measurePhoto(path, info.maxCode, codeToLinearLut(transfer, info.maxCode), regions, Math.round(clipLevel * info.maxCode));
+    } catch (e) {
+      throw fail(`the open photo ${path} could not be decoded (${messageOf(e)})`, 'Re-export it as JPEG, PNG or TIFF');
+    }
+    const clipped = measured[0]!.clippedFraction;
+    if (clipped > CLIPPED_WARNING_FRACTION) {
+      throw fail(`${percent(clipped)} of the beam region of the open photo is clipped, so the open level would read low`, 'Take the open photo at a shorter exposure time, with its exposure EXIF (or the grey card of --reference-roi in view) so kerrtrace can relate it to the series');
+    }
+    const darkOpen = opts.darkRoi ? measured[1]!.luma : 0;
+    let exposure = 1;
+    if (exposureBasis === 'exif') {
+      const pair = relativeExposure([exif[refPhoto]!, await readExif(path)]);
+      if (pair.basis !== 'exif') throw fail('the open photo carries no exposure time in its EXIF, but the series was normalised by EXIF', 'Give the open photo as the camera wrote it, with its EXIF');
+      for (const m of pair.warnings) warn('exposure-exif-partial', `open photo: ${m}`, 'lock-exposure');
+      exposure = pair.relative[1]!;
+    } else if (exposureBasis === 'reference') {
+      const refOpen = measured[opts.darkRoi ? 2 : 1]!.luma - darkOpen;
+      const refFirst = referenceLinear![refPhoto]! - (darkLinear ? darkLinear[refPhoto]! : 0);
+      exposure = refOpen / refFirst;
+      if (!(exposure > 0)) throw fail('the reference region of the open photo is not brighter than its dark level', 'Keep the grey card of --reference-roi lit and in view in the open photo too');
+    } else {
+      notes.push('the open photo is taken to have the first photo\'s exposure: there is no exposure EXIF or reference region to tell');
+    }
+    const intensity = (measured[0]!.luma - darkOpen) / exposure;
+    if (!(intensity > 0)) throw fail('the beam region of the open photo is not brighter than its dark region', 'Check the regions and that the analyser was turned parallel');
+    openPhoto = { path, intensity, exposureRelative: exposure, clippedFraction: clipped };
+  }
+
   const usedTransfers = [...new Set(readable.map((i) => transfers[i]!))];
   if (usedTransfers.length > 1) warn('mixed-transfer', `the photos were linearised with different transfer curves (${usedTransfers.join(', ')}); give --transfer to use one for all`);
 
@@ -411,6 +499,8 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     notes,
     roi,
     roiIsWholeFrame,
+    darkRoi: opts.darkRoi ?? null,
+    referenceRoi: opts.referenceRoi ?? null,
     roiLinear,
     darkLinear,
     referenceLinear,
@@ -422,6 +512,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     unreadable,
     captureTimeS,
     leftOut,
+    openPhoto,
   };
 }
 

@@ -1,28 +1,31 @@
 /**
- * stills.csv: one row per photo used or left out by the fit (documented in docs/stills.md).
- * Columns: file, voltage_V, intensity (dark-subtracted, exposure-normalised, linear),
- * roi_linear, dark_linear, reference_linear (mean linear Rec. 709 luminance of each region before
- * corrections; empty without that region), exposure_relative, clipped_fraction, transfer,
- * used (1/0), excluded_reason, model, residual (empty without a fit). Pure.
- * @example stillsCsv(series, fit).split('\n')[0] // "file,voltage_V,intensity,..."
+ * stills.csv, written beside trace.csv by `kerrtrace stills`: what each photo was before the
+ * corrections, so the intensity in trace.csv can be checked by hand (docs/stills.md). One row per
+ * photo, in the order of trace.csv (join on `frame`). Columns:
+ *   frame, file, voltage_V,
+ *   roi_linear, dark_linear, reference_linear  mean linear Rec. 709 luminance of each region
+ *                                               (1 = full-scale white), before dark subtraction
+ *                                               and exposure normalisation; empty without that
+ *                                               region or for an unreadable photo,
+ *   exposure_relative                           exposure against the first readable photo,
+ *   clipped_fraction                            share of the beam region's pixels clipped,
+ *   transfer, bit_depth                         how the photo was linearised.
+ * trace.csv's intensity = (roi_linear − dark_linear) / exposure_relative. Pure.
+ * @example stillsCsv(series).split('\n')[0] // "frame,file,voltage_V,roi_linear,..."
  */
 import type { StillsSeries } from './readStillsSeries.js';
-import type { StillsFit } from './fitStillsSeries.js';
 
 const fmt = (x: number | undefined | null, digits = 7): string => (x === undefined || x === null || !Number.isFinite(x) ? '' : Number(x.toPrecision(digits)).toString());
-const quoted = (s: string): string => (/[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+const quoted = (s: string): string => (/[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
 
-export const STILLS_CSV_COLUMNS = ['file', 'voltage_V', 'intensity', 'roi_linear', 'dark_linear', 'reference_linear', 'exposure_relative', 'clipped_fraction', 'transfer', 'used', 'excluded_reason', 'model', 'residual'];
+export const STILLS_CSV_COLUMNS = ['frame', 'file', 'voltage_V', 'roi_linear', 'dark_linear', 'reference_linear', 'exposure_relative', 'clipped_fraction', 'transfer', 'bit_depth'];
 
-export function stillsCsv(series: StillsSeries, fit: StillsFit | null): string {
+export function stillsCsv(series: StillsSeries): string {
   const lines = [STILLS_CSV_COLUMNS.join(',')];
   series.files.forEach((file, i) => {
-    const model = fit?.model[i];
-    const residual = model !== undefined && Number.isFinite(model) ? series.intensity[i]! - model : null;
     lines.push([
-      quoted(file), fmt(series.voltageV[i], 9), fmt(series.intensity[i]), fmt(series.roiLinear[i]), fmt(series.darkLinear?.[i]), fmt(series.referenceLinear?.[i]),
-      fmt(series.exposureRelative[i]), fmt(series.clippedFraction[i], 4), series.transfers[i]!, fit ? fit.used[i] : '', fit?.excludedReason[i] ?? '',
-      fmt(model), fmt(residual),
+      i, quoted(file), fmt(series.voltageV[i], 9), fmt(series.roiLinear[i]), fmt(series.darkLinear?.[i]), fmt(series.referenceLinear?.[i]),
+      fmt(series.exposureRelative[i]), fmt(series.clippedFraction[i], 4), series.transfers[i]!, series.bitDepths[i] ?? '',
     ].join(','));
   });
   return `${lines.join('\n')}\n`;

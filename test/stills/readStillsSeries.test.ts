@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { copyFileSync, mkdirSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import sharp from 'sharp';
 import exifr from 'exifr';
 import { Jimp } from 'jimp';
@@ -110,7 +110,7 @@ describe('readStillsSeries', () => {
     expect(s.voltageSource).toBe('csv');
     expect(s.files).toEqual(['IMG_0001.jpg', 'IMG_0002.jpg']);
     expect(Array.from(s.voltageV)).toEqual([0, 1500]);
-    expect(s.warnings.join(' ')).toMatch(/1 photo\(s\) in the folder are not in .*map\.csv and were left out: IMG_0003\.jpg/);
+    expect(s.warnings.map((w) => w.message).join(' ')).toMatch(/1 photo\(s\) in the folder are not in .*map\.csv and were left out: IMG_0003\.jpg/);
     expect(s.leftOut.map((l) => l.file)).toContain('IMG_0003.jpg');
   });
 
@@ -121,7 +121,8 @@ describe('readStillsSeries', () => {
     const s = await readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: DARK_ROI, referenceRoi: CARD_ROI });
     expect(s.exposureBasis).toBe('reference');
     expect(s.exposureRelative[1]).toBeCloseTo(1.5, 2);
-    expect(s.warnings.join(' ')).toMatch(/no exposure EXIF and the reference region changes by 50%: the exposure seems to vary/);
+    expect(s.warnings.map((w) => w.message).join(' ')).toMatch(/no exposure EXIF and the reference region changes by 50%: the exposure seems to vary/);
+    expect(s.warnings.find((w) => w.code === 'exposure-drift')?.guideSection).toBe('lock-exposure');
     expect(Math.abs(s.intensity[1]! / s.intensity[0]! - 1)).toBeLessThan(0.02);
   });
 
@@ -131,7 +132,7 @@ describe('readStillsSeries', () => {
     await writePng8(join(dir, '500V.png'), { beam: 0.3 });
     const s = await readStillsSeries(dir, { roi: BEAM_ROI });
     expect(s.exposureBasis).toBe('none');
-    expect(s.warnings.join(' ')).toMatch(/cannot tell whether the exposure changed/);
+    expect(s.warnings.map((w) => w.message).join(' ')).toMatch(/cannot tell whether the exposure changed/);
     expect(Array.from(s.voltageV)).toEqual([0, 500]);
   });
 
@@ -140,10 +141,98 @@ describe('readStillsSeries', () => {
     await writePng8(join(dir, '1kV.png'), { beam: 1.5 });
     const s = await readStillsSeries(dir, { roi: BEAM_ROI });
     expect(s.clippedFraction[0]).toBe(1);
-    expect(s.warnings.join(' ')).toMatch(/1 photo\(s\) have more than 1% of the beam region clipped \(1kV\.png\)/);
+    expect(s.warnings.map((w) => w.message).join(' ')).toMatch(/1 photo\(s\) have more than 1% of the beam region clipped \(1kV\.png\)/);
+    expect(s.warnings.find((w) => w.code === 'clipping')?.guideSection).toBe('avoid-clipping');
+  });
+
+  it('EXIF capture times become seconds after the earliest photo; without them captureTimeS is null', async () => {
+    const dir = folder();
+    await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.1 }, { exposureTime: '1/60', dateTimeOriginal: '2024:05:17 14:00:58', subSecTimeOriginal: '50' });
+    await writeJpeg(join(dir, 'b_1kV.jpg'), { beam: 0.1 }, { exposureTime: '1/60', dateTimeOriginal: '2024:05:17 14:01:03', subSecTimeOriginal: '75' });
+    const s = await readStillsSeries(dir, { roi: BEAM_ROI });
+    expect(Array.from(s.captureTimeS!)).toEqual([0, expect.closeTo(5.25, 9)]);
+    expect(s.warnings.map((w) => w.code)).not.toContain('capture-order');
+    await writeJpeg(join(dir, 'c_2kV.jpg'), { beam: 0.1 }, { exposureTime: '1/60' });
+    expect((await readStillsSeries(dir, { roi: BEAM_ROI })).captureTimeS).toBeNull();
+  });
+
+  it('capture times that run against the name order are warned about', async () => {
+    const dir = folder();
+    await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.1 }, { dateTimeOriginal: '2024:05:17 14:01:00' });
+    await writeJpeg(join(dir, 'b_1kV.jpg'), { beam: 0.1 }, { dateTimeOriginal: '2024:05:17 14:00:00' });
+    const s = await readStillsSeries(dir, { roi: BEAM_ROI });
+    expect(s.warnings.find((w) => w.code === 'capture-order')?.message).toMatch(/b_1kV\.jpg was taken before a_0V\.jpg/);
+  });
+
+  it('an unreadable photo (cut-short JPEG) is skipped and counted, not fatal; the first readable photo is the exposure reference', async () => {
+    const dir = folder();
+    await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.1 }, { exposureTime: '1/60' });
+    await writeJpeg(join(dir, 'b_1kV.jpg'), { beam: 0.2, exposure: 2 }, { exposureTime: '1/30' });
+    await writeJpeg(join(dir, 'c_2kV.jpg'), { beam: 0.3 }, { exposureTime: '1/60' });
+    const whole = readFileSync(join(dir, 'a_0V.jpg'));
+    writeFileSync(join(dir, 'a_0V.jpg'), whole.subarray(0, Math.floor(whole.length / 2))); // a copy cut short
+    const s = await readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: DARK_ROI });
+    expect(s.unreadable[0]).toMatch(/\S/);
+    expect(s.unreadable.slice(1)).toEqual([null, null]);
+    expect(Number.isNaN(s.intensity[0]!)).toBe(true);
+    expect(s.bitDepths[0]).toBeNull();
+    expect(Array.from(s.exposureRelative.slice(1))).toEqual([1, 0.5]);
+    expect(Math.abs(s.intensity[1]! - 0.4)).toBeLessThan(0.01); // 0.2 at twice the first readable photo's exposure
+    expect(s.warnings.find((w) => w.code === 'unreadable')?.message).toMatch(/^1 photo\(s\) could not be read and were left out: a_0V\.jpg/);
+  });
+
+  describe('open photo (analyser parallel, no field)', () => {
+    it('is measured like the series and put on its exposure scale by EXIF: the open level comes out whatever exposure it was shot at', async () => {
+      const dir = folder();
+      await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.02, black: 0.005 }, { exposureTime: '1/60', iso: '100', fNumber: '2' });
+      await writeJpeg(join(dir, 'b_5kV.jpg'), { beam: 0.1, black: 0.005 }, { exposureTime: '1/60', iso: '100', fNumber: '2' });
+      const other = folder();
+      // 0.9 of open light would clip at the series' exposure; shot at a quarter of it (1/240 s)
+      await writeJpeg(join(other, 'open.jpg'), { beam: 0.9, exposure: 0.25, black: 0.005 }, { exposureTime: '1/240', iso: '100', fNumber: '2' });
+      const s = await readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: DARK_ROI, openPhotoPath: join(other, 'open.jpg') });
+      expect(s.openPhoto!.exposureRelative).toBeCloseTo(0.25, 9);
+      expect(Math.abs(s.openPhoto!.intensity / 0.9 - 1)).toBeLessThan(0.02);
+      expect(s.openPhoto!.clippedFraction).toBe(0);
+    });
+
+    it('with a reference region instead of EXIF, the grey card relates the exposures', async () => {
+      const dir = folder();
+      await writePng8(join(dir, 'a_0V.png'), { beam: 0.02 });
+      await writePng8(join(dir, 'b_5kV.png'), { beam: 0.1, exposure: 1.2 });
+      const other = folder();
+      await writePng8(join(other, 'open.png'), { beam: 0.8, exposure: 0.5 });
+      const s = await readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: DARK_ROI, referenceRoi: CARD_ROI, openPhotoPath: join(other, 'open.png') });
+      expect(s.exposureBasis).toBe('reference');
+      expect(s.openPhoto!.exposureRelative).toBeCloseTo(0.5, 2);
+      expect(Math.abs(s.openPhoto!.intensity / 0.8 - 1)).toBeLessThan(0.02);
+    });
+
+    it('refuses a clipped open photo, one of another size, one without the EXIF the series uses, and one of the series itself', async () => {
+      const dir = folder();
+      await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.02 }, { exposureTime: '1/60' });
+      await writeJpeg(join(dir, 'b_5kV.jpg'), { beam: 0.1 }, { exposureTime: '1/60' });
+      const other = folder();
+      await writeJpeg(join(other, 'bright.jpg'), { beam: 1.5 }, { exposureTime: '1/60' });
+      await writeJpeg(join(other, 'small.jpg'), { beam: 0.5, width: 80, height: 60 }, { exposureTime: '1/60' });
+      await writeJpeg(join(other, 'noexif.jpg'), { beam: 0.5 });
+      const open = (file: string) => errorOf(readStillsSeries(dir, { roi: BEAM_ROI, openPhotoPath: file }));
+      expect((await open(join(other, 'bright.jpg'))).line).toMatch(/100% of the beam region of the open photo is clipped, so the open level would read low\. Take the open photo at a shorter exposure time/);
+      expect((await open(join(other, 'small.jpg'))).line).toMatch(/the open photo is 80x60 but the series is 160x120/);
+      expect((await open(join(other, 'noexif.jpg'))).line).toMatch(/the open photo carries no exposure time in its EXIF, but the series was normalised by EXIF/);
+      expect((await open(join(dir, 'b_5kV.jpg'))).line).toMatch(/the open photo b_5kV\.jpg is also one of the series' photos/);
+      expect((await open(join(other, 'missing.jpg'))).code).toBe('FILE_NOT_FOUND');
+    });
   });
 
   describe('bad input: one clear line each', () => {
+    it('no photo can be read', async () => {
+      const dir = folder();
+      await writeJpeg(join(dir, 'a_0V.jpg'), { beam: 0.1 });
+      writeFileSync(join(dir, 'a_0V.jpg'), readFileSync(join(dir, 'a_0V.jpg')).subarray(0, 40));
+      const e = await errorOf(readStillsSeries(dir));
+      expect(e.line).toMatch(/none of the 1 photo\(s\) in .* could be read \(a_0V\.jpg: .*\)\. Re-export the photos/);
+    });
+
     it('a folder with no images', async () => {
       const dir = folder();
       writeFileSync(join(dir, 'volts.csv'), 'file,voltage\n');

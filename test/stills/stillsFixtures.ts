@@ -66,6 +66,8 @@ export interface ExifSpec {
   exposureTime?: string; // e.g. "1/100"
   iso?: string;
   fNumber?: string;
+  dateTimeOriginal?: string; // "YYYY:MM:DD HH:MM:SS"
+  subSecTimeOriginal?: string;
 }
 
 export async function writeJpeg(path: string, spec: SceneSpec, exif?: ExifSpec): Promise<void> {
@@ -76,6 +78,8 @@ export async function writeJpeg(path: string, spec: SceneSpec, exif?: ExifSpec):
     if (exif.exposureTime) ifd2.ExposureTime = exif.exposureTime;
     if (exif.iso) ifd2.ISOSpeedRatings = exif.iso;
     if (exif.fNumber) ifd2.FNumber = exif.fNumber;
+    if (exif.dateTimeOriginal) ifd2.DateTimeOriginal = exif.dateTimeOriginal;
+    if (exif.subSecTimeOriginal) ifd2.SubSecTimeOriginal = exif.subSecTimeOriginal;
     img = img.withExif({ IFD0: { Make: 'kerrtrace-test' }, IFD2: ifd2 });
   }
   await img.toFile(path);

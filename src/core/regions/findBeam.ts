@@ -111,17 +111,3 @@ export function findBeam(input: FindBeamInput): BeamCells {
     rangeMap,
   };
 }
-
-/** Mean over a block box of one frame's grid. */
-export function cellBoxMean(grid: Float32Array, offset: number, gridWidth: number, box: CellBox): number {
-  let s = 0;
-  for (let y = box.y0; y <= box.y1; y++) {
-    const row = offset + y * gridWidth;
-    for (let x = box.x0; x <= box.x1; x++) s += grid[row + x]!;
-  }
-  return s / ((box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1));
-}
-
-export function cellBoxCount(box: CellBox): number {
-  return (box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1);
-}

@@ -2,7 +2,7 @@
  * Halo-to-core ratio: how bright the static forward-scatter light just outside the beam is,
  * relative to the beam's modulation amplitude at its core:
  *
- *   R = (mean static light in the halo band − far dark level) / (κ · peak of the modulated map).
+ *   R = (mean over the halo band of (a_c − φ·b_c) − far dark level) / (κ · peak of the modulated map).
  *
  * "Just outside the beam" is the halo band of `regionsFromMaps`: the blocks outside the beam's
  * 5 % footprint within w = max(r₅₀, 2 blocks) of it (r₅₀ the half-peak radius), for a round beam
@@ -12,6 +12,9 @@
  * luminance, the unit of the numerator: the halo is a small signal over the room light, where the
  * grid reads luminance to first order, but a bright coloured core is compressed by the transfer
  * curve (a red spot by about 0.6×) and would otherwise inflate R by 1/κ.
+ * φ·b_c removes the beam's own zero-field light (floor) from the band: it follows the beam profile,
+ * so in block c it is the floor fraction φ (zero-field light over I_amp, from the Kerr fit) times
+ * the block's modulated light b_c; without φ (or φ not finite and ≥ 0) nothing is removed.
  * The simulator's truth (src/sim/truth.ts) is the same quantity from the planted light:
  * S·(mean H over the band − H at the far corner)/A.
  *
@@ -20,10 +23,9 @@
  * with σ_band = √(Σ se(a_c)²)/n over the n band blocks.
  *
  * Dimensionless. A clean liquid gives R near 0 (only polariser leak and stray light); dirt that
- * scatters light forward raises it. The beam's own zero-field light (floor) reaches into the band
- * at under 5 % of its core level and adds a few per cent of it. Returns null (nothing to report)
+ * scatters light forward raises it. Returns null (nothing to report)
  * when there is no far dark region or no band. Pure; throws nothing.
- * @example haloToCoreRatio(maps, regions, { scale: 1.6, stdErr: 0.005 }) → { ratio: { value: 0.0150, stdErr: 0.0001 }, … }
+ * @example haloToCoreRatio(maps, regions, { coreScale: { scale: 1.6, stdErr: 0.005 }, floorFraction: 0.026 }) → { ratio: { value: 0.0150, stdErr: 0.0001 }, … }
  */
 import { quantity, type Quantity } from '../../quantity.js';
 import type { ModulationMaps } from './modulationMaps.js';
@@ -31,8 +33,8 @@ import type { ScatterRegions } from './regionsFromMaps.js';
 
 export interface HaloMeasure {
   ratio: Quantity;
-  /** Mean static light in the band and the far dark level, linear (grid) units. */
-  annulusLevel: number;
+  /** Mean static light in the band (floor removed) and the far dark level, linear (grid) units. */
+  bandLevel: number;
   darkLevel: number;
   /** κ·P: the core's modulation amplitude in luminance units. */
   coreAmplitude: number;
@@ -40,11 +42,16 @@ export interface HaloMeasure {
   bandCells: number;
 }
 
-export function haloToCoreRatio(
-  maps: ModulationMaps,
-  regions: ScatterRegions,
-  coreScale: { scale: number; stdErr: number } = { scale: 1, stdErr: 0 },
-): HaloMeasure | null {
+export interface HaloOptions {
+  /** κ and its standard error (`gridLuminanceScale`); default 1 ± 0. */
+  coreScale?: { scale: number; stdErr: number };
+  /** φ, the floor fraction of the Kerr fit; default: no floor removed. */
+  floorFraction?: number;
+}
+
+export function haloToCoreRatio(maps: ModulationMaps, regions: ScatterRegions, options: HaloOptions = {}): HaloMeasure | null {
+  const coreScale = options.coreScale ?? { scale: 1, stdErr: 0 };
+  const phi = options.floorFraction !== undefined && Number.isFinite(options.floorFraction) && options.floorFraction >= 0 ? options.floorFraction : 0;
   if (!regions.dark || regions.halo.cellCount <= 0) return null;
   const { mask, outer } = regions.halo;
   let sum = 0;
@@ -54,14 +61,14 @@ export function haloToCoreRatio(
     for (let x = outer.x0; x <= outer.x1; x++) {
       const c = y * maps.width + x;
       if (!mask[c]) continue;
-      sum += maps.staticMap[c]!;
+      sum += maps.staticMap[c]! - phi * maps.modulatedMap[c]!;
       varSum += maps.staticStdErr[c]! ** 2;
       n++;
     }
   }
   if (n === 0) return null;
-  const annulusLevel = sum / n;
-  const numerator = annulusLevel - regions.dark.level;
+  const bandLevel = sum / n;
+  const numerator = bandLevel - regions.dark.level;
   const numeratorErr = Math.hypot(Math.sqrt(varSum) / n, regions.dark.levelStdErr);
   const peak = regions.peakModulated.value * coreScale.scale;
   const ratio = numerator / peak;
@@ -70,5 +77,5 @@ export function haloToCoreRatio(
     ratio * (regions.peakModulated.stdErr / regions.peakModulated.value),
     ratio * (coreScale.stdErr / coreScale.scale),
   );
-  return { ratio: quantity(ratio, ratioErr), annulusLevel, darkLevel: regions.dark.level, coreAmplitude: peak, bandCells: n };
+  return { ratio: quantity(ratio, ratioErr), bandLevel, darkLevel: regions.dark.level, coreAmplitude: peak, bandCells: n };
 }
