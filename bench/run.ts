@@ -16,6 +16,9 @@
  * Wall-clock speed on a shared machine swings with other work, so CPU seconds per frame (all
  * processes of a case: Node, ffmpeg, ffprobe) are printed too, and b/a is also given from them.
  *
+ *  (d–f) the analyze job on simulated 720p footage (bench/analyzeCases.ts): decoding to nothing,
+ *      then analyze with maps and scatter figures with a given beam region and with the beam
+ *      found automatically (which reads the clip twice). Target: e/d ≤ 1.3.
  * More cases: add a BenchCase ({ name, run }) to the list in main(); see timeIt.ts.
  */
 import { execFile, spawn } from 'node:child_process';
@@ -30,6 +33,7 @@ import { ffmpegPath, locate } from '../src/media/ffmpegPaths.js';
 import type { Rect } from '../src/media/types.js';
 import { childrenCpuS } from './cpuTime.js';
 import { formatResult, runCases, type BenchCase, type CaseOutcome, type CaseResult } from './timeIt.js';
+import { analyzeBenchClip, analyzeCases } from './analyzeCases.js';
 
 const execFileAsync = promisify(execFile);
 const here = dirname(fileURLToPath(import.meta.url)); // dist/bench
@@ -140,6 +144,8 @@ async function main(): Promise<void> {
     { name: '(b-whole) trace from whole frames, 30 s', run: () => traceInChild(clip, SPREAD, undefined, true), repeats: REPEATS },
     { name: `(c) naive: PNG per frame + sharp stats, first ${NAIVE_S} s`, run: () => naivePngRoute(clip, SPREAD) },
   ];
+  const sim = await analyzeBenchClip(cacheDir);
+  cases.push(...analyzeCases(sim.dir, sim.roi, sim.frames, REPEATS));
   process.stdout.write(`each timed case runs up to ${REPEATS} times, interleaved; the fastest run counts\n`);
   const results = await runCases(cases, (r, round) => process.stdout.write(`round ${round}  ${formatResult(r)}\n`));
   process.stdout.write('\nbest of each:\n');
@@ -159,6 +165,11 @@ async function main(): Promise<void> {
   process.stdout.write(`${ratioLine('b/c (trace vs naive PNG route)', b / c, '>= 20', b / c >= 20)}\n`);
   process.stdout.write(`${ratioLine('peak RSS of (b), MB', rss30, '< 300', rss30 < 300)}\n`);
   process.stdout.write(`${ratioLine('peak RSS 30 s / 10 s prefix', rss30 / rss10, '≈ 1 (flat)', rss30 / rss10 < 1.15)}\n`);
+  const seconds = (prefix: string): number => results.find((r) => r.name.startsWith(prefix) && r.ok)?.seconds ?? NaN;
+  const d = seconds('(d)'), e = seconds('(e)'), f = seconds('(f)');
+  process.stdout.write(`${ratioLine('e/d (analyze+maps vs decode, time)', e / d, '<= 1.3', e / d <= 1.3)}\n`);
+  process.stdout.write(`${ratioLine('  same by CPU per frame', cpu('(e)') / cpu('(d)'), '(for reference)', true)}\n`);
+  process.stdout.write(`${ratioLine('f/d (same, beam found: 2 decodes)', f / d, '(for reference)', true)}\n`);
 }
 
 main().catch((e: unknown) => {

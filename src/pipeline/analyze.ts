@@ -13,8 +13,8 @@ import { basename, dirname, extname, join, resolve } from 'node:path';
 import { KerrError, invalid } from '../errors.js';
 import { quantity, type Quantity } from '../quantity.js';
 import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/types.js';
-import { probeVideo } from '../media/probe.js';
-import { openFrameStream } from '../media/frameStream.js';
+import { probeMedia, type ProbeResult } from '../media/probe.js';
+import { openAnalysisStream } from '../media/analysisStream.js';
 import { decodingFor } from '../core/camera/decodingFor.js';
 import { createRegionMeter } from '../measure/regionMeter.js';
 import { createGridSampler } from '../measure/gridSampler.js';
@@ -183,17 +183,22 @@ function resizeSeries(s: RegionSeries, size: number): RegionSeries {
   return out;
 }
 
-async function decodePass(path: string, info: VideoInfo, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
-  const cap0 = Math.max(16, info.frameCount + 8);
-  let cap = cap0;
+/**
+ * One decoding pass: frame times, the block overview (linear luminance per block, as if grey:
+ * cheap, for finding the beam, flashes and maps) and full-resolution colour means of the regions.
+ */
+async function decodePass(path: string, probe: ProbeResult, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
+  const info = probe.info;
+  let cap = Math.max(16, info.frameCount + 8);
   let times = new Float64Array(cap);
-  const gw = step ? Math.floor(info.width / step) : 0;
-  const gh = step ? Math.floor(info.height / step) : 0;
+  const stream = openAnalysisStream(probe, regions, { ...(step ? { step } : {}), ...(onProgress ? { onProgress } : {}) });
+  const gw = stream.gridWidth;
+  const gh = stream.gridHeight;
   const cells = gw * gh;
   let grid = new Float32Array(step ? cap * cells : 0);
   let series = regions.map(() => newSeries(cap));
-  const meter = regions.length ? createRegionMeter(info.width, info.height, regions, decoding) : null;
-  const sampler = step ? createGridSampler(info.width, info.height, step, decoding) : null;
+  const meters = stream.crops.map((c, k) => createRegionMeter(c.w, c.h, [stream.offsets[k]!], decoding));
+  const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
   let n = 0;
   const growTo = (next: number) => {
     const t2 = new Float64Array(next); t2.set(times); times = t2;
@@ -201,17 +206,14 @@ async function decodePass(path: string, info: VideoInfo, decoding: CameraDecodin
     series = series.map((x) => resizeSeries(x, next));
     cap = next;
   };
-  const stream = openFrameStream(path, onProgress ? { onProgress } : {});
-  for await (const frame of stream) {
+  for await (const frame of stream.frames) {
     if (n >= cap) growTo(Math.ceil(cap * 1.5));
     times[n] = frame.timeS;
-    if (sampler) sampler.sample(frame, grid.subarray(n * cells, (n + 1) * cells));
-    if (meter) {
-      const samples = meter.measure(frame);
-      for (let r = 0; r < samples.length; r++) {
-        const x = series[r]!, m = samples[r]!;
-        x.luma[n] = m.luma; x.r[n] = m.r; x.g[n] = m.g; x.b[n] = m.b; x.clipped[n] = m.clippedFraction;
-      }
+    if (sampler && frame.overview) sampler.sample(frame.overview, grid.subarray(n * cells, (n + 1) * cells));
+    for (let r = 0; r < meters.length; r++) {
+      const m = meters[r]!.measure(frame.regions[r]!)[0]!;
+      const x = series[r]!;
+      x.luma[n] = m.luma; x.r[n] = m.r; x.g[n] = m.g; x.b[n] = m.b; x.clipped[n] = m.clippedFraction;
     }
     n++;
   }
@@ -234,7 +236,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const warn = (code: string, message: string, guideSection?: string) => {
     warnings.push(guideSection ? { code, message, guideSection } : { code, message });
   };
-  const info = await probeVideo(o.videoPath);
+  const probe = await probeMedia(o.videoPath);
+  const info = probe.info;
   const decoding = decodingFor(info, o.transfer ? { transfer: o.transfer } : {});
   for (const [r, opt] of [[o.roi, '--roi'], [o.darkRoi, '--dark-roi'], [o.referenceRoi, '--reference-roi']] as const) {
     if (r) validateRect(r, info.width, info.height, opt);
@@ -269,7 +272,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   if (o.darkRoi) add('dark', o.darkRoi);
   if (o.referenceRoi) add('reference', o.referenceRoi);
   const step = chooseGridStep(info);
-  const pass = await decodePass(o.videoPath, info, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
+  const pass = await decodePass(o.videoPath, probe, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
   const nFrames = pass.frames;
   if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', `${o.videoPath} has only ${nFrames} decodable frames`, { hint: 'Record a longer clip' });
   const { grid } = pass;
@@ -319,7 +322,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     // The grid reads luminance as if every pixel were grey, which is fast and fine for finding the
     // beam but not proportional for coloured light; a second pass reads the beam and its rings at
     // full resolution with the full colour decoding (the decode is the cost; the meter is cheap).
-    const second = await decodePass(o.videoPath, info, decoding, [beamRect, geom.a0, geom.a1, geom.b1], null, hooks.onProgress ? (d, t) => hooks.onProgress!('measuring the beam', d, t) : undefined);
+    const second = await decodePass(o.videoPath, probe, decoding, [beamRect, geom.a0, geom.a1, geom.b1], null, hooks.onProgress ? (d, t) => hooks.onProgress!('measuring the beam', d, t) : undefined);
     if (second.frames !== nFrames) {
       throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
     }
@@ -430,7 +433,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     openLevel = median(vals);
   }
   if (o.openVideoPath) {
-    const openInfo = await probeVideo(o.openVideoPath);
+    const openProbe = await probeMedia(o.openVideoPath);
+    const openInfo = openProbe.info;
     if (openInfo.width !== info.width || openInfo.height !== info.height) {
       throw new KerrError('BAD_ARGUMENT', `the open video is ${openInfo.width}×${openInfo.height} but the run is ${info.width}×${info.height}`, { path: '--open-video', hint: 'Record the open level with the same camera settings' });
     }
@@ -438,7 +442,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     if (o.darkRoi) openRegions.push(o.darkRoi);
     else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
     const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
-    const openPass = await decodePass(o.openVideoPath, openInfo, decodingFor(openInfo, o.transfer ? { transfer: o.transfer } : {}), openRegions, null);
+    const openPass = await decodePass(o.openVideoPath, openProbe, decodingFor(openInfo, o.transfer ? { transfer: o.transfer } : {}), openRegions, null);
     const vals: number[] = [];
     for (let f = 0; f < openPass.frames; f++) {
       let bg = 0;
