@@ -25,6 +25,7 @@ import { interpolateAt } from '../core/signal/interpolate.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { findBeam, type CellBox } from '../core/regions/findBeam.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
+import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
@@ -189,15 +190,30 @@ function resizeSeries(s: RegionSeries, size: number): RegionSeries {
  */
 async function decodePass(path: string, probe: ProbeResult, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
   const info = probe.info;
+  // Regions nested inside the next one (beam ⊂ rings) share one crop and are measured as disjoint
+  // pieces, so every pixel is decoded into colour once.
+  const groups: number[][] = [];
+  for (let r = 0; r < regions.length; r++) {
+    const last = groups[groups.length - 1];
+    if (last && isNestedChain([regions[last[last.length - 1]!]!, regions[r]!])) last.push(r);
+    else groups.push([r]);
+  }
+  const outerOf = groups.map((g) => regions[g[g.length - 1]!]!);
   let cap = Math.max(16, info.frameCount + 8);
   let times = new Float64Array(cap);
-  const stream = openAnalysisStream(probe, regions, { ...(step ? { step } : {}), ...(onProgress ? { onProgress } : {}) });
+  const stream = openAnalysisStream(probe, outerOf, { ...(step ? { step } : {}), ...(onProgress ? { onProgress } : {}) });
   const gw = stream.gridWidth;
   const gh = stream.gridHeight;
   const cells = gw * gh;
   let grid = new Float32Array(step ? cap * cells : 0);
   let series = regions.map(() => newSeries(cap));
-  const meters = stream.crops.map((c, k) => createRegionMeter(c.w, c.h, [stream.offsets[k]!], decoding));
+  const plans = groups.map((g, k) => {
+    const crop = stream.crops[k]!;
+    const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
+    const { pieces, ringOf } = nestedPieces(local);
+    return { members: g, ringOf, meter: createRegionMeter(crop.w, crop.h, pieces, decoding), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
+  });
+  const acc = new Float64Array(5);
   const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
   let n = 0;
   const growTo = (next: number) => {
@@ -210,10 +226,23 @@ async function decodePass(path: string, probe: ProbeResult, decoding: CameraDeco
     if (n >= cap) growTo(Math.ceil(cap * 1.5));
     times[n] = frame.timeS;
     if (sampler && frame.overview) sampler.sample(frame.overview, grid.subarray(n * cells, (n + 1) * cells));
-    for (let r = 0; r < meters.length; r++) {
-      const m = meters[r]!.measure(frame.regions[r]!)[0]!;
-      const x = series[r]!;
-      x.luma[n] = m.luma; x.r[n] = m.r; x.g[n] = m.g; x.b[n] = m.b; x.clipped[n] = m.clippedFraction;
+    for (let k = 0; k < plans.length; k++) {
+      const plan = plans[k]!;
+      const parts = plan.meter.measure(frame.regions[k]!);
+      acc.fill(0);
+      let piece = 0;
+      for (let m = 0; m < plan.members.length; m++) {
+        // cumulative sums: rect m = rect m−1 plus the pieces of ring m
+        while (piece < parts.length && plan.ringOf[piece] === m) {
+          const p = parts[piece]!;
+          const c = p.pixelCount;
+          acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
+          piece++;
+        }
+        const x = series[plan.members[m]!]!;
+        const count = plan.counts[m]!;
+        x.luma[n] = acc[0]! / count; x.r[n] = acc[1]! / count; x.g[n] = acc[2]! / count; x.b[n] = acc[3]! / count; x.clipped[n] = acc[4]! / count;
+      }
     }
     n++;
   }
