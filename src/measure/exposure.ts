@@ -17,6 +17,7 @@
  * @example correctExposure(0.5, 0.1, 2) // 0.2
  */
 import { KerrError } from '../errors.js';
+import { median } from '../core/fit/robustScale.js';
 
 export interface ExposureGains {
   /** gain per frame (NaN where the reference was unusable). */
@@ -30,14 +31,8 @@ export interface ExposureGains {
   maxGain: number;
 }
 
-/** Median of a sample (copies; never reorders the caller's array). NaN for an empty sample. */
-export function median(values: ArrayLike<number>): number {
-  const sorted = Float64Array.from(values).sort();
-  const n = sorted.length;
-  if (n === 0) return NaN;
-  const mid = n >> 1;
-  return n % 2 === 1 ? sorted[mid]! : 0.5 * (sorted[mid - 1]! + sorted[mid]!);
-}
+/** Median of a sample, NaNs ignored (the shared implementation; re-exported for callers of this module). */
+export { median } from '../core/fit/robustScale.js';
 
 export function exposureGains(reference: ArrayLike<number>, dark?: ArrayLike<number>): ExposureGains {
   const n = reference.length;

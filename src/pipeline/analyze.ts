@@ -28,6 +28,7 @@ import { surroundWeights, type SurroundGeometry } from '../core/regions/localSur
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
+import { median } from '../core/fit/robustScale.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
 import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
@@ -141,12 +142,6 @@ function cellsToRect(b: CellBox, step: number): Rect {
   return { x: b.x0 * step, y: b.y0 * step, w: (b.x1 - b.x0 + 1) * step, h: (b.y1 - b.y0 + 1) * step };
 }
 
-function median(a: ArrayLike<number>): number {
-  const s = Array.from(a).filter(Number.isFinite).sort((x, y) => x - y);
-  if (s.length === 0) return NaN;
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-}
 
 /** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
 function chooseGridStep(info: VideoInfo): number {

@@ -35,6 +35,7 @@ import { gridLuminanceScale } from '../core/scatter/gridLuminanceScale.js';
 import { surroundWeights } from '../core/regions/localSurround.js';
 import type { Rect } from '../media/types.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
+import { percentileSorted } from '../core/stats/percentileSorted.js';
 import { floorFlicker } from '../core/scatter/floorFlicker.js';
 import { baselineFloor } from '../core/scatter/baselineFloor.js';
 import { exposureDrift } from '../core/scatter/exposureDrift.js';
@@ -85,12 +86,7 @@ export interface ScatterProducts {
 }
 
 function percentile(values: Float32Array, q: number): number {
-  const s = Float64Array.from(values).filter(Number.isFinite).sort();
-  if (s.length === 0) return NaN;
-  const pos = q * (s.length - 1);
-  const lo = Math.floor(pos);
-  const hi = Math.min(s.length - 1, lo + 1);
-  return s[lo]! + (s[hi]! - s[lo]!) * (pos - lo);
+  return percentileSorted(Float64Array.from(values).filter(Number.isFinite).sort(), q);
 }
 
 /**

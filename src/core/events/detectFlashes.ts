@@ -6,17 +6,14 @@
  * small absolute floor, so that a perfectly still clip does not flag quantisation steps.
  * Pure. Returns per-frame flags and the robust z of each flagged frame.
  */
+import { median } from '../fit/robustScale.js';
+
 export interface FlashDetection {
   flags: Uint8Array;
   z: Float64Array;
   count: number;
 }
 
-function median(values: number[]): number {
-  const s = values.slice().sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-}
 
 export function detectFlashes(frameMean: ArrayLike<number>, options: { halfWindow?: number; zLimit?: number; minJump?: number } = {}): FlashDetection {
   const n = frameMean.length;

@@ -6,6 +6,7 @@
  * background. Pure; throws KerrError BAD_REGION when nothing in the frame follows the drive.
  */
 import { KerrError } from '../../errors.js';
+import { percentileSorted } from '../stats/percentileSorted.js';
 
 export interface CellBox {
   x0: number; // inclusive block indices
@@ -38,12 +39,6 @@ export interface FindBeamInput {
   maxSampleFrames?: number;
 }
 
-function percentile(sorted: Float64Array, q: number): number {
-  const pos = q * (sorted.length - 1);
-  const lo = Math.floor(pos);
-  const hi = Math.min(sorted.length - 1, lo + 1);
-  return sorted[lo]! + (sorted[hi]! - sorted[lo]!) * (pos - lo);
-}
 
 export function findBeam(input: FindBeamInput): BeamCells {
   const { grid, frames, gridWidth: gw, gridHeight: gh } = input;
@@ -63,12 +58,12 @@ export function findBeam(input: FindBeamInput): BeamCells {
   for (let c = 0; c < cells; c++) {
     for (let k = 0; k < chosen.length; k++) series[k] = grid[chosen[k]! * cells + c]!;
     series.sort();
-    rangeMap[c] = percentile(series, 0.95) - percentile(series, 0.05);
+    rangeMap[c] = percentileSorted(series, 0.95) - percentileSorted(series, 0.05);
   }
   let peak = 0;
   for (let c = 1; c < cells; c++) if (rangeMap[c]! > rangeMap[peak]!) peak = c;
   const sortedRanges = Float64Array.from(rangeMap).sort();
-  const medianRange = percentile(sortedRanges, 0.5);
+  const medianRange = percentileSorted(sortedRanges, 0.5);
   const peakRange = rangeMap[peak]!;
   if (!(peakRange > 0) || peakRange < 4 * medianRange + 1e-4) {
     throw new KerrError('BAD_REGION', 'no part of the frame brightens and darkens clearly with the drive, so the beam could not be found automatically', {

@@ -16,7 +16,7 @@
  *   → [{ frameIndex: 4, relStep: 0.5, size: … }]
  */
 import { KerrError } from '../../errors.js';
-import { robustScale } from '../fit/robustScale.js';
+import { median, robustScale } from '../fit/robustScale.js';
 
 export interface ExposureJumpsInput {
   level: Float64Array;
@@ -35,11 +35,6 @@ export interface ExposureJump {
   size: number;
 }
 
-function medianOf(values: number[]): number {
-  const s = values.slice().sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-}
 
 export function detectExposureJumps(input: ExposureJumpsInput): ExposureJump[] {
   const { level, skip } = input;
@@ -64,7 +59,7 @@ export function detectExposureJumps(input: ExposureJumpsInput): ExposureJump[] {
     for (let j = Math.max(0, k - settle); j < k; j++) pre.push(level[idx[j]!]!);
     for (let j = k; j < Math.min(m, k + settle); j++) post.push(level[idx[j]!]!);
     if (pre.length < settle || post.length < settle) continue;
-    const persistent = medianOf(post) - medianOf(pre);
+    const persistent = median(post) - median(pre);
     if (Math.sign(persistent) !== Math.sign(step) || Math.abs(persistent) < 0.5 * Math.abs(step)) continue;
     const jump = { k, frameIndex: idx[k]!, relStep: step / Math.max(Math.abs(before), 1e-6), size: step / scale };
     const last = jumps[jumps.length - 1];

@@ -18,6 +18,7 @@
  * @example exposureDrift({ level, modulation, include }).ratio → 1.21 (drifting)
  */
 import { KerrError } from '../../errors.js';
+import { percentileSorted } from '../stats/percentileSorted.js';
 
 export interface ExposureDriftInput {
   /** Background level per frame (raw, linear units). */
@@ -40,12 +41,6 @@ export interface ExposureDrift {
   driveFreeLevel: Float64Array;
 }
 
-function percentileSorted(sorted: Float64Array, q: number): number {
-  const pos = q * (sorted.length - 1);
-  const lo = Math.floor(pos);
-  const hi = Math.min(sorted.length - 1, lo + 1);
-  return sorted[lo]! + (sorted[hi]! - sorted[lo]!) * (pos - lo);
-}
 
 export function exposureDrift(input: ExposureDriftInput): ExposureDrift {
   const { level, modulation, include } = input;
