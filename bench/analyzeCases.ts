@@ -1,7 +1,7 @@
 /**
  * Benchmark cases for the analyze job (the project's issue: the whole analyze run with maps stays
  * within 1.3× the time of decoding the clip once). The clip is simulated bench footage with known
- * truth (1280×720, 30 fps, 30 s, made once by the project's simulator and kept in bench/.cache/),
+ * truth (1920×1080, 30 fps, 30 s, a noisy sensor, made once by the project's simulator and kept in bench/.cache/),
  * so the analysis does real work: sync, fit, maps, scatter figures.
  */
 import { execFile } from 'node:child_process';
@@ -19,12 +19,13 @@ import type { BenchCase, CaseOutcome } from './timeIt.js';
 const execFileAsync = promisify(execFile);
 
 const SCENARIO = {
-  label: 'benchmark: 720p ramps with a dirty liquid',
+  label: 'benchmark: 1080p ramps with a dirty liquid and a noisy phone sensor',
   seed: 99,
   cell: { kerrConstantMPerV2: 2.4e-12, lengthMm: 50, gapMm: 5, liquidBreakdownKvPerMm: 6 },
-  light: { profile: 'gaussian', sigmaPx: 24, centreXPx: 700, centreYPx: 380, wavelengthNm: 532, amplitude: 0.6 },
+  light: { profile: 'gaussian', sigmaPx: 30, centreXPx: 1000, centreYPx: 560, wavelengthNm: 532, amplitude: 0.6 },
   dirt: { scatterFloor: 0.008, haloPeak: 0.005, haloSigmaPx: 200, particles: { count: 4, durationS: 0.4, brightness: 0.5, sizePx: 3 }, sparks: { count: 2 } },
-  camera: { widthPx: 1280, heightPx: 720, frameRateHz: 30, ambient: 0.01, crf: 20 },
+  // A phone-like noisy sensor, so that the clip costs about as much to decode as real footage.
+  camera: { widthPx: 1920, heightPx: 1080, frameRateHz: 30, ambient: 0.03, photonsPerFullScale: 1500, readNoise: 0.006, crf: 20 },
   drive: { segments: [
     { kind: 'hold', durationS: 2 }, { kind: 'ramp', toHalfWaveFraction: 1.1, durationS: 8 }, { kind: 'ramp', toV: 0, durationS: 8 },
     { kind: 'hold', durationS: 2 }, { kind: 'ramp', toHalfWaveFraction: 0.8, durationS: 4 }, { kind: 'ramp', toV: 0, durationS: 4 }, { kind: 'hold', durationS: 2 },
@@ -33,7 +34,7 @@ const SCENARIO = {
 };
 
 export async function analyzeBenchClip(cacheDir: string): Promise<{ dir: string; roi: Rect; frames: number }> {
-  const dir = join(cacheDir, 'sim-720p-30s');
+  const dir = join(cacheDir, 'sim-1080p-30s');
   if (!existsSync(join(dir, 'truth.json'))) {
     process.stdout.write(`rendering the analyze benchmark clip with the simulator (once): ${dir}\n`);
     const partial = `${dir}.partial`;
@@ -69,8 +70,8 @@ async function analyze(dir: string, roi: Rect | undefined): Promise<CaseOutcome>
 export function analyzeCases(dir: string, roi: Rect, frames: number, repeats: number): BenchCase[] {
   const clip = join(dir, 'clip.mp4');
   return [
-    { name: '(d) ffmpeg decode to null, 720p sim', run: () => decodeToNull(clip, frames), repeats },
-    { name: '(e) analyze with maps, --roi, 720p sim', run: () => analyze(dir, roi), repeats },
-    { name: '(f) analyze with maps, beam found, 720p sim', run: () => analyze(dir, undefined), repeats },
+    { name: '(d) ffmpeg decode to null, 1080p sim', run: () => decodeToNull(clip, frames), repeats },
+    { name: '(e) analyze with maps, --roi, 1080p sim', run: () => analyze(dir, roi), repeats },
+    { name: '(f) analyze with maps, beam found, 1080p sim', run: () => analyze(dir, undefined), repeats },
   ];
 }

@@ -16,7 +16,7 @@
  * Wall-clock speed on a shared machine swings with other work, so CPU seconds per frame (all
  * processes of a case: Node, ffmpeg, ffprobe) are printed too, and b/a is also given from them.
  *
- *  (d–f) the analyze job on simulated 720p footage (bench/analyzeCases.ts): decoding to nothing,
+ *  (d–f) the analyze job on simulated 1080p footage with a noisy sensor (bench/analyzeCases.ts): decoding to nothing,
  *      then analyze with maps and scatter figures with a given beam region and with the beam
  *      found automatically (which reads the clip twice). Target: e/d ≤ 1.3.
  * More cases: add a BenchCase ({ name, run }) to the list in main(); see timeIt.ts.

@@ -101,9 +101,7 @@ export function createRegionMeter(
       rowSums.fill(0);
       let col = rect.x;
       if (col & 1) addSingle(data, lumaRow, chromaRow, col++);
-      // Pairs of pixels share one chroma sample: look it up once. The sums live in local variables
-      // (not the typed arrays) inside this hot loop; the arithmetic is addPixel's.
-      let sR = 0, sG = 0, sB = 0, cR = 0, cG = 0, cB = 0, clipped = 0;
+      // pairs of pixels share one chroma sample: look it up once
       for (; col + 1 < x1; col += 2) {
         const chromaIndex = chromaRow + (col >> 1);
         const u = data[uOffset + chromaIndex]!;
@@ -111,31 +109,9 @@ export function createRegionMeter(
         const rChroma = rFromV[v]!;
         const gChroma = gFromU[u]! + gFromV[v]!;
         const bChroma = bFromU[u]!;
-        for (let k = 0; k < 2; k++) {
-          const base = yCode[data[lumaRow + col + k]!]!;
-          let r = base + rChroma;
-          let g = base + gChroma;
-          let b = base + bChroma;
-          if (r >= clipThreshold || g >= clipThreshold || b >= clipThreshold) clipped++;
-          r = r <= 0 ? 0 : r >= 255 ? 255 : r;
-          g = g <= 0 ? 0 : g >= 255 ? 255 : g;
-          b = b <= 0 ? 0 : b >= 255 ? 255 : b;
-          cR += r;
-          cG += g;
-          cB += b;
-          let i = r | 0;
-          let lo = linear[i]!;
-          sR += lo + (r - i) * (linear[i + 1]! - lo);
-          i = g | 0;
-          lo = linear[i]!;
-          sG += lo + (g - i) * (linear[i + 1]! - lo);
-          i = b | 0;
-          lo = linear[i]!;
-          sB += lo + (b - i) * (linear[i + 1]! - lo);
-        }
+        addPixel(yCode[data[lumaRow + col]!]!, rChroma, gChroma, bChroma);
+        addPixel(yCode[data[lumaRow + col + 1]!]!, rChroma, gChroma, bChroma);
       }
-      rowSums[0] += sR; rowSums[1] += sG; rowSums[2] += sB;
-      rowSums[3] += cR; rowSums[4] += cG; rowSums[5] += cB; rowSums[6] += clipped;
       if (col < x1) addSingle(data, lumaRow, chromaRow, col);
       for (let k = 0; k < 7; k++) regionSums[k] += rowSums[k]!;
     }
