@@ -4,14 +4,13 @@
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { KerrError, invalid } from '../../src/errors.js';
-import { formatQuantity } from '../../src/quantity.js';
 import { parseRect } from '../../src/measure/rect.js';
-import { checkAnalyzeOptions, defaultOutDir, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
-
+import type { AnalyzeOptions } from '../../src/pipeline/analyze.js';
 import { checkOutputDir } from '../../src/io/outputDir.js';
 import type { TransferName } from '../../src/media/types.js';
 import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
+import { summaryText } from '../summaryText.js';
 
 export function parseNumber(text: string, option: string, what: string): number {
   const x = Number(text);
@@ -104,17 +103,19 @@ export function register(program: Command): void {
     .option('--quiet', 'no progress bar')
     .action(action(async (video: string, c: AnalyzeCliOptions) => {
       const o = toAnalyzeOptions(video, c);
+      // The pipeline, image and plot libraries load only when the command runs, so that
+      // `kerrtrace --help` and the other commands start quickly.
+      const { checkAnalyzeOptions, defaultOutDir } = await import('../../src/pipeline/analyze.js');
       checkAnalyzeOptions(o);
       const outDir = c.out ?? defaultOutDir(video);
       checkOutputDir(outDir, c.force === true, [video, o.voltsPath]);
-      const progress = makeProgress('decoding', c.quiet === true || c.json === true);
-      const versions = toolVersionInfo();
-      // Heavy modules (image and plot libraries) load only when the command runs.
       const [{ analyzeWithProducts }, { finishRun }, { readRunResult }] = await Promise.all([
         import('../../src/pipeline/analyzeWithProducts.js'),
         import('../../src/pipeline/finishRun.js'),
         import('../../src/compare/readRunResult.js'),
       ]);
+      const progress = makeProgress('decoding', c.quiet === true || c.json === true);
+      const versions = toolVersionInfo();
       const baseline = c.baseline ? await readRunResult(c.baseline) : undefined;
       let run;
       try {
@@ -137,26 +138,4 @@ export function register(program: Command): void {
         process.stdout.write(summaryText(out.result, written));
       }
     }));
-}
-
-export function summaryText(r: import('../../src/result/schema.js').RunResult, dir: string): string {
-  const lines: string[] = [];
-  lines.push(`kerrtrace: ${r.label}`);
-  if (r.identifiable) {
-    lines.push(`  Kerr constant B      ${formatQuantity(r.kerrConstant)}`);
-    lines.push(`  half-wave voltage    ${formatQuantity(r.halfWaveVoltage)}`);
-  } else {
-    lines.push('  Kerr constant B      not identifiable from this sweep (see warnings)');
-  }
-  lines.push(`  floor fraction       ${formatQuantity(r.floorFraction)}`);
-  lines.push(`  contrast ratio       ${formatQuantity(r.contrastRatio)}`);
-  lines.push(`  sync offset          ${formatQuantity(r.syncOffset)}${r.sync.manual ? ' (given)' : ''}`);
-  lines.push(`  frames used          ${r.frames.used} of ${r.frames.total}${Object.keys(r.frames.excluded).length ? ` (left out: ${Object.entries(r.frames.excluded).map(([k, v]) => `${v} ${k}`).join(', ')})` : ''}`);
-  if (r.channels) {
-    lines.push(`  B by channel         R ${formatQuantity(r.channels.r)}, G ${formatQuantity(r.channels.g)}, B ${formatQuantity(r.channels.b)}`);
-    lines.push(`                       (${r.channels.note})`);
-  }
-  for (const w of r.warnings) lines.push(`  warning: ${w.message}`);
-  lines.push(`  files: ${dir}`);
-  return `${lines.join('\n')}\n`;
 }

@@ -5,7 +5,7 @@
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { decodingFor } from '../../src/core/camera/decodingFor.js';
-import { probeMedia, type ProbeResult } from '../../src/media/probe.js';
+import type { ProbeResult } from '../../src/media/probe.js';
 
 interface InspectCliOptions {
   json?: boolean;
@@ -59,6 +59,7 @@ export function register(program: Command): void {
     .argument('<video>', 'video file from the camera')
     .option('--json', 'print JSON instead of text')
     .action(action(async (video: string, c: InspectCliOptions) => {
+      const { probeMedia } = await import('../../src/media/probe.js'); // loads only when the command runs
       const probe = await probeMedia(video);
       process.stdout.write(c.json ? `${JSON.stringify(inspectJson(probe), null, 2)}\n` : inspectText(probe));
     }));

@@ -6,8 +6,6 @@
 import type { Command } from 'commander';
 import { invalid } from '../../src/errors.js';
 import { formatNumber } from '../../src/quantity.js';
-import { readScenarioFile } from '../../src/sim/readScenarioFile.js';
-import { simulateRun } from '../../src/sim/simulate.js';
 import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
 
@@ -36,6 +34,8 @@ export function register(program: Command): void {
     .option('--quiet', 'print nothing except errors')
     .action(action(async (scenarioPath: string, opts: SimulateCliOptions) => {
       const seed = parseSeed(opts.seed);
+      // The renderer loads only when the command runs, so that `kerrtrace --help` starts quickly.
+      const [{ readScenarioFile }, { simulateRun }] = await Promise.all([import('../../src/sim/readScenarioFile.js'), import('../../src/sim/simulate.js')]);
       const scenario = await readScenarioFile(scenarioPath, seed === undefined ? {} : { seed });
       const progress = makeProgress('rendering', opts.quiet === true);
       let summary;

@@ -6,30 +6,24 @@
  * Order: parse and check every option (mm → m once, here), refuse an existing output folder
  * before any photo is read, read the series (src/stills/readStillsSeries.ts), hash the inputs,
  * build the run (src/stills/stillsRunResult.ts), write the folder whole or not at all
- * (writeRunDir), then print the summary or result.json.
+ * (writeRunDir), then print the photo table and the summary (cli/summaryText.ts) or result.json.
+ * Heavy modules (sharp, exifr through the reader, vega through the report) are imported inside
+ * the action, after the options are checked.
  */
 import type { Command } from 'commander';
 import { basename, dirname, join, resolve } from 'node:path';
-import sharp from 'sharp';
 import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
+import { summaryText } from '../summaryText.js';
 import { toolVersion } from '../toolVersion.js';
-import { summaryText } from './analyze.js';
 import { KerrError, invalid, isKerrError } from '../../src/errors.js';
 import type { Rect, TransferName } from '../../src/media/types.js';
 import { parseRect } from '../../src/measure/rect.js';
 import { parseTransfer } from '../../src/core/camera/transfer.js';
 import { checkOutputDir } from '../../src/io/outputDir.js';
-import { sha256File } from '../../src/io/sha256File.js';
 import { parseNumberOption } from '../../src/design/parseNumberOption.js';
-import { writeRunDir, jsonSafe } from '../../src/pipeline/writeRun.js';
-import { writeRunReport } from '../../src/report/writeRunReport.js';
 import type { InputFile } from '../../src/result/schema.js';
-import { readStillsSeries, type StillsOptions } from '../../src/stills/readStillsSeries.js';
-import { stillsRunResult } from '../../src/stills/stillsRunResult.js';
-import { stillsCsv } from '../../src/stills/stillsCsv.js';
-import { stillsRegionOverlay } from '../../src/stills/stillsRegionOverlay.js';
-import { formatPhotoTable } from '../../src/stills/formatPhotoTable.js';
+import type { StillsOptions } from '../../src/stills/readStillsSeries.js';
 
 interface StillsCliOptions {
   volts?: string;
@@ -62,16 +56,6 @@ function required(text: string | undefined, option: string, what: string): strin
 export function defaultStillsOutDir(folder: string): string {
   const abs = resolve(folder);
   return join(dirname(abs), `${basename(abs)}.kerrtrace`);
-}
-
-/**
- * analyze's summary in the words of a photo series: there is no sync offset (each photo carries
- * its voltage) and the frames are photos.
- */
-export function stillsSummaryText(analyzeSummary: string): string {
-  return analyzeSummary
-    .replace(/^( {2}sync offset {10}).*$/m, '$1none: each photo carries its voltage')
-    .replace(/^( {2})frames used( +)/m, '$1photos used$2');
 }
 
 /** Registers the `stills` command. */
@@ -123,7 +107,22 @@ export function register(program: Command): void {
         const outDir = o.out ?? defaultStillsOutDir(folder);
         checkOutputDir(outDir, o.force === true, [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])]);
 
-        // The work.
+        // The work. The image, EXIF, fitting and plot libraries load only now, so that
+        // `kerrtrace --help` and the other commands start quickly.
+        const [
+          { default: sharp }, { readStillsSeries }, { stillsRunResult }, { stillsCsv }, { stillsRegionOverlay },
+          { formatPhotoTable }, { sha256File }, { writeRunDir, jsonSafe }, { writeRunReport },
+        ] = await Promise.all([
+          import('sharp'),
+          import('../../src/stills/readStillsSeries.js'),
+          import('../../src/stills/stillsRunResult.js'),
+          import('../../src/stills/stillsCsv.js'),
+          import('../../src/stills/stillsRegionOverlay.js'),
+          import('../../src/stills/formatPhotoTable.js'),
+          import('../../src/io/sha256File.js'),
+          import('../../src/pipeline/writeRun.js'),
+          import('../../src/report/writeRunReport.js'),
+        ]);
         const readOptions: StillsOptions = {};
         if (o.volts !== undefined) readOptions.voltsPath = o.volts;
         if (roi) readOptions.roi = roi;
@@ -188,7 +187,7 @@ export function register(program: Command): void {
           process.stdout.write(`${JSON.stringify(result, jsonSafe, 2)}\n`);
         } else {
           process.stdout.write(`${formatPhotoTable(series, trace)}\n`);
-          process.stdout.write(stillsSummaryText(summaryText(result, written)));
+          process.stdout.write(summaryText(result, written));
         }
       }),
     );

@@ -14,11 +14,9 @@ import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
 import { KerrError } from '../../src/errors.js';
 import { parseTransfer } from '../../src/core/camera/transfer.js';
-import { probeMedia } from '../../src/media/probe.js';
 import type { Rect } from '../../src/media/types.js';
 import { parseRect, validateRect } from '../../src/measure/rect.js';
-import { traceVideo, type TraceOptions } from '../../src/pipeline/trace.js';
-import { regionTraceCsv } from '../../src/pipeline/regionTraceCsv.js';
+import type { TraceOptions } from '../../src/pipeline/trace.js';
 
 interface TraceCliOptions {
   roi?: string[];
@@ -90,6 +88,12 @@ export function register(program: Command): void {
       const transfer = c.transfer !== undefined ? parseTransfer(c.transfer, '--transfer') : undefined;
       if (c.out !== undefined) checkOutputFile(c.out, c.force === true, [video]);
 
+      // The media layer loads only when the command runs, so that `kerrtrace --help` starts quickly.
+      const [{ probeMedia }, { traceVideo }, { regionTraceCsv }] = await Promise.all([
+        import('../../src/media/probe.js'),
+        import('../../src/pipeline/trace.js'),
+        import('../../src/pipeline/regionTraceCsv.js'),
+      ]);
       const probe = await probeMedia(video);
       const { width, height } = probe.info;
       regions.forEach((r, k) => validateRect(r, width, height, regions.length > 1 ? `--roi #${k + 1}` : '--roi'));

@@ -32,7 +32,8 @@ import { median } from '../core/fit/robustScale.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
 import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
-import { linearisedKerr } from '../core/fit/linearisedKerr.js';
+import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
+import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
 import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
 
 export interface AnalyzeOptions {
@@ -639,27 +640,14 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   const contrastRatio = quantity(lo > 0 ? hi / lo : Infinity);
   if (!(lo > 0)) warn('floor-not-positive', 'the fitted floor is at or below the surround level, so the contrast ratio is unbounded; check the dark and beam regions', 'camera-still');
 
-  // linearised reduction on the first branch
-  let linearised: RunResult['linearised'] = null;
-  try {
-    const tFirst: number[] = [], vFirst: number[] = [];
-    const angleFactor = Math.sin((2 * polariserAngleDeg * Math.PI) / 180) ** 2;
-    for (let k = 0; k < vUsed.length; k++) {
-      if (fit.outliers[k]) continue;
-      if (Math.abs(vUsed[k]!) >= fit.halfWaveVoltage.value) continue;
-      tFirst.push((iUsed[k]! - floor.value) / (amp.value * angleFactor));
-      vFirst.push(vUsed[k]!);
-    }
-    if (tFirst.length >= 5) {
-      const lin = linearisedKerr({ voltageV: Float64Array.from(vFirst), transmission: Float64Array.from(tFirst), gapM, lengthM: effectiveLengthM });
-      const b1 = fit.kerrConstant, b2 = lin.kerrConstant;
-      const z = (b2.value - b1.value) / Math.hypot(b1.stdErr ?? 0, b2.stdErr ?? 0);
-      linearised = { kerrConstant: b2, points: lin.points, agreesWithFit: Math.abs(z) < 3, zScore: z };
-      if (Math.abs(z) >= 3 && Math.abs(b2.value / b1.value - 1) > 0.02 && fit.identifiable) warn('linearised-disagrees', `the linearised reduction gives B = ${b2.value.toExponential(3)} m/V^2, ${Math.abs(z).toFixed(1)} standard errors from the fit; check for drift, hysteresis or a wrong floor`);
-    }
-  } catch {
-    linearised = null;
-  }
+  // linearised reduction on the first branch, compared with the fit
+  const linearised = linearisedCrossCheck({
+    voltageV: vUsed, intensity: iUsed, outliers: fit.outliers,
+    floorLevel: floor.value, amplitude: amp.value, halfWaveVoltageV: fit.halfWaveVoltage.value,
+    polariserAngleDeg, gapM, effectiveLengthM, fitKerrConstant: fit.kerrConstant,
+  });
+  const disagreement = linearisedDisagreement(linearised, fit.kerrConstant, fit.identifiable);
+  if (disagreement !== null) warn('linearised-disagrees', disagreement);
 
   // ---- per-channel fits ----
   let channels: RunResult['channels'];

@@ -2,7 +2,7 @@
  * Escapes text for HTML element content and quoted attribute values: & < > " ' become entities.
  * Every piece of text that did not come from this tool's own templates (labels, notes, file
  * names, paths, option values, warning text) goes through this one function before it reaches
- * report.html, comparison.html or summary.md.
+ * report.html or comparison.html (summary.md and comparison.md use escapeMarkdown).
  * Source: the HTML Living Standard's rules for character references (common practice for
  * escaping untrusted text; OWASP XSS prevention rule #1).
  * Non-string values are converted with String() first; null and undefined become "".

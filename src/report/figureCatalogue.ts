@@ -6,7 +6,8 @@
  * where tables use that convention (1 m/V² = 100 cm/V²).
  * `identifiable: true` marks figures that depend on telling the Kerr constant apart from the
  * light level (B, Vπ, Vπ/√2, floor fraction); when a run's `identifiable` is false these are not
- * shown as numbers.
+ * shown as numbers. `read` returns null for a figure the run does not have (no scatter figures
+ * without maps, no sync offset for a photo series).
  * @example FIGURES.find((f) => f.key === 'halfWaveVoltage')?.display === { scale: 1e-3, unit: 'kV' }
  */
 import type { Quantity } from '../quantity.js';
@@ -84,7 +85,8 @@ export const FIGURES: readonly FigureDefinition[] = [
   {
     key: 'syncOffset', phrase: 'the sync offset', name: 'Sync offset', meaning: 'video time minus log time of the same instant',
     siUnit: 's', display: { scale: 1, unit: 's' }, identifiable: false, compared: false, better: 'neither',
-    read: (r) => r.syncOffset,
+    // A photo series has no second clock: each photo carries its voltage, so there is no offset to show.
+    read: (r) => (r.source === 'stills' ? null : r.syncOffset),
   },
   {
     key: 'haloToCoreRatio', phrase: 'the halo-to-core ratio', name: 'Halo-to-core ratio', meaning: 'static light around the beam relative to the beam core',

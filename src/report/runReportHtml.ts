@@ -6,6 +6,10 @@
  * Every string that came from the user or from files (labels, paths, options, warnings, reasons)
  * is escaped through the `html` template. Pure: the caller renders plots and supplies the link
  * to the guide. Never throws for well-typed input.
+ * A photo series (result.source "stills") is described in its own words: photos instead of
+ * frames, "photo order" or "seconds after the first photo" (options.timeBasis) instead of video
+ * time, the voltage of each photo instead of a synchronisation search, a photo with the regions
+ * drawn, and no frame rate.
  * @example runReportHtml({ result, plots, images: {}, hrefFor: (a) => `guide.md#${a}` }) starts with "<!DOCTYPE html>"
  */
 import { formatNumber, type Quantity } from '../quantity.js';
@@ -16,6 +20,7 @@ import { formatMeasured } from './formatMeasured.js';
 import { html, trustedHtml, type SafeHtml } from './html.js';
 import { htmlPage } from './htmlPage.js';
 import { safetyHtml } from './safetyHtml.js';
+import { sampleWords } from './sampleWords.js';
 import { warningsHtml } from './warningsHtml.js';
 import { MAX_POINTS_PER_SERIES } from './plots/plotStyle.js';
 
@@ -56,14 +61,14 @@ export function runReportHtml(parts: RunReportParts): string {
     timeSection(r, parts.plots.timeTrace),
     transmissionSection(r, parts.plots.transmission),
     linearisedSection(r, parts.plots.linearised),
-    syncSection(r, parts.plots.sync, parts.hrefFor),
+    r.source === 'stills' ? photoVoltagesSection(r) : syncSection(r, parts.plots.sync, parts.hrefFor),
     imagesSection(r, parts.images),
     provenanceSection(r),
     safetyHtml('9', parts.hrefFor('safety')),
   ];
   const toc = [
     ['figures', 'Figures'], ['warnings', `Warnings (${r.warnings.length})`], ['time', 'Time trace'], ['transmission', 'Transmission'],
-    ['linearised', 'Linearised'], ['sync', 'Sync'], ['images', 'Images'], ['provenance', 'Provenance'], ['safety', 'Safety'],
+    ['linearised', 'Linearised'], ['sync', r.source === 'stills' ? 'Voltages' : 'Sync'], ['images', 'Images'], ['provenance', 'Provenance'], ['safety', 'Safety'],
   ].map(([id, name]) => html`<a href="#${id}">${name}</a>`);
   const body = html`<main>
 <header class="masthead">
@@ -119,7 +124,7 @@ function figuresSection(r: RunResult, hrefFor: (a: string) => string): SafeHtml 
     : html`<div class="callout"><strong>The Kerr constant could not be separated from the brightness of the light.</strong>
 The sweep reached ${formatMeasured(id.maxVoltageOverHalfWave, null, { digits: 2 })} of the (uncertain) half-wave voltage and no open level was measured, so the fitted light amplitude and the half-wave voltage trade off against each other (correlation ${formatMeasured(id.ampVpiCorrelation, null, { digits: 3 })}; relative error of B would be ${formatMeasured(id.relStdErrB * 100, null, { digits: 2 })}%).
 A number here would carry a misleading error bar, so none is given for B, Vπ, Vπ/√2 or the floor fraction.
-<br>What to record instead: a few seconds of the <a href="${hrefFor('open-level')}">open level</a> (analyser parallel, no voltage), or a <a href="${hrefFor('sweep')}">sweep</a> that reaches at least 0.6 of the half-wave voltage — only if the cell and supply are rated for it.</div>`;
+<br>What to record instead: ${r.source === 'stills' ? 'a photo' : 'a few seconds'} of the <a href="${hrefFor('open-level')}">open level</a> (analyser parallel, no voltage${r.source === 'stills' ? '; give it with --open-photo' : ''}), or a <a href="${hrefFor('sweep')}">sweep</a> that reaches at least 0.6 of the half-wave voltage — only if the cell and supply are rated for it.</div>`;
   const extra: SafeHtml[] = [];
   if (r.hysteresis) {
     const h = r.hysteresis;
@@ -155,16 +160,16 @@ ${extra}
 </section>`;
 }
 
-function thinnedNote(block: PlotBlock): string {
+function thinnedNote(block: PlotBlock, many: string): string {
   if (!block.thinned) return '';
   const parts = Object.entries(block.counts)
     .filter(([, c]) => c.drawn < c.available)
     .map(([name, c]) => `${name} ${c.drawn} of ${c.available}`);
-  return ` Long series are thinned for drawing to at most ${MAX_POINTS_PER_SERIES} points each, keeping the lowest and highest sample of every stretch (${parts.join(', ')}); the fit used every frame.`;
+  return ` Long series are thinned for drawing to at most ${MAX_POINTS_PER_SERIES} points each, keeping the lowest and highest sample of every stretch (${parts.join(', ')}); the fit used every ${many === 'photos' ? 'photo' : 'frame'}.`;
 }
 
-function plotFigure(block: PlotBlock, caption: SafeHtml, name: string): SafeHtml {
-  return html`<figure data-plot="${name}"><div class="plot">${trustedHtml(block.svg)}</div><figcaption>${caption}${thinnedNote(block)} Also saved as <code>${block.files.png}</code> and <code>${block.files.svg}</code>.</figcaption></figure>`;
+function plotFigure(block: PlotBlock, caption: SafeHtml, name: string, many = 'frames'): SafeHtml {
+  return html`<figure data-plot="${name}"><div class="plot">${trustedHtml(block.svg)}</div><figcaption>${caption}${thinnedNote(block, many)} Also saved as <code>${block.files.png}</code> and <code>${block.files.svg}</code>.</figcaption></figure>`;
 }
 
 function missingPlot(text: string): SafeHtml {
@@ -173,16 +178,21 @@ function missingPlot(text: string): SafeHtml {
 
 function timeSection(r: RunResult, block: PlotBlock | null): SafeHtml {
   const excluded = Object.entries(r.frames.excluded).reduce((a, [, n]) => a + n, 0);
-  const caption = html`<b>Intensity and voltage against video time.</b> Top: measured beam intensity (solid) and the fitted model (dashed); crosses mark the ${excluded} frames left out of the fit; event markers and dotted lines show ${r.events.length} detected events (sparks, particles, clipping, exposure jumps). Bottom: the logged voltage, shifted by the sync offset onto the video clock.`;
-  return html`<section id="time"><h2><span class="no">3</span>Intensity and voltage over time</h2>
-${block ? plotFigure(block, caption, 'time-trace') : missingPlot('No trace rows were supplied, so there is no time plot.')}
+  const w = sampleWords(r);
+  const caption = r.source === 'stills'
+    ? html`<b>Intensity and voltage against ${w.timeAxis}.</b> Top: measured beam intensity of each photo (solid) and the fitted model (dashed); crosses mark the ${excluded} photos left out of the fit; markers and dotted lines show ${r.events.length} clipped photos. Bottom: the voltage each photo was taken at.`
+    : html`<b>Intensity and voltage against video time.</b> Top: measured beam intensity (solid) and the fitted model (dashed); crosses mark the ${excluded} frames left out of the fit; event markers and dotted lines show ${r.events.length} detected events (sparks, particles, clipping, exposure jumps). Bottom: the logged voltage, shifted by the sync offset onto the video clock.`;
+  const title = r.source === 'stills' ? 'Intensity and voltage, photo by photo' : 'Intensity and voltage over time';
+  return html`<section id="time"><h2><span class="no">3</span>${title}</h2>
+${block ? plotFigure(block, caption, 'time-trace', w.many) : missingPlot('No trace rows were supplied, so there is no time plot.')}
 </section>`;
 }
 
 function transmissionSection(r: RunResult, block: PlotBlock | null): SafeHtml {
-  const caption = html`<b>Transmission against voltage.</b> Measured intensity at each frame's voltage (circles: used in the fit; crosses: left out) with the fitted curve I = I_floor + I_amp·sin²(2θ)·sin²(δ/2), δ = 2π·B·L_eff·V²/d² (dashed). Below: residuals (measured − model) of the frames used; residual RMS ${formatMeasured(r.fit.residualRms)}.`;
+  const w = sampleWords(r);
+  const caption = html`<b>Transmission against voltage.</b> Measured intensity at each ${w.one}'s voltage (circles: used in the fit; crosses: left out) with the fitted curve I = I_floor + I_amp·sin²(2θ)·sin²(δ/2), δ = 2π·B·L_eff·V²/d² (dashed). Below: residuals (measured − model) of the ${w.many} used; residual RMS ${formatMeasured(r.fit.residualRms)}.`;
   return html`<section id="transmission"><h2><span class="no">4</span>Transmission against voltage</h2>
-${block ? plotFigure(block, caption, 'transmission') : missingPlot('No frames with a voltage were supplied, so there is no transmission plot.')}
+${block ? plotFigure(block, caption, 'transmission', w.many) : missingPlot(`No ${w.many} with a voltage were supplied, so there is no transmission plot.`)}
 </section>`;
 }
 
@@ -192,13 +202,14 @@ function linearisedSection(r: RunResult, block: PlotBlock | null): SafeHtml {
     return html`<section id="linearised"><h2><span class="no">5</span>Linearised reduction</h2>${missingPlot('The classic linear reduction was not computed for this run (too few first-branch points, or the light level is not known).')}</section>`;
   }
   const b = figure('kerrConstant');
-  const caption = html`<b>Linearised form.</b> On the first branch (δ ≤ π) the Kerr law gives V² = d²/(2π·B·L_eff)·δ with δ = 2·arcsin√T, a straight line through the origin. Points: frames used in the fit up to Vπ (T from the fitted floor and amplitude); dashed: the regression line.`;
+  const w = sampleWords(r);
+  const caption = html`<b>Linearised form.</b> On the first branch (δ ≤ π) the Kerr law gives V² = d²/(2π·B·L_eff)·δ with δ = 2·arcsin√T, a straight line through the origin. Points: ${w.many} used in the fit up to Vπ (T from the fitted floor and amplitude); dashed: the regression line.`;
   const verdict = r.identifiable ? (lin.agreesWithFit ? 'agrees with the full fit' : 'does NOT agree with the full fit') : 'not separable from brightness';
   return html`<section id="linearised"><h2><span class="no">5</span>Linearised reduction</h2>
 <table class="kv"><tr><th>Kerr constant from the regression</th><td class="num">${r.identifiable ? formatFigure(b, lin.kerrConstant) : 'not given (see Figures)'}</td></tr>
 <tr><th>Points on the first branch</th><td class="num">${lin.points}</td></tr>
 <tr><th>Comparison with the full fit</th><td>${verdict} (z = ${formatMeasured(lin.zScore, null, { digits: 2 })})</td></tr></table>
-${plotFigure(block, caption, 'linearised')}
+${plotFigure(block, caption, 'linearised', w.many)}
 </section>`;
 }
 
@@ -214,6 +225,18 @@ function syncSection(r: RunResult, block: PlotBlock | null, hrefFor: (a: string)
 <tr><th>Width of the optimum</th><td class="num">${s.sharpnessS === null ? 'not estimated' : `±${formatMeasured(s.sharpnessS * 1000)} ms`}</td></tr></table>
 ${ambiguous}
 ${block ? plotFigure(block, caption, 'sync') : missingPlot(s.manual ? 'The offset was given by hand; there is no search curve.' : 'No search curve was recorded.')}
+</section>`;
+}
+
+/** A photo series has no second clock: the section says where each photo's voltage came from. */
+function photoVoltagesSection(r: RunResult): SafeHtml {
+  const source = r.options.voltageSource === 'csv'
+    ? 'the voltage map given with --volts (one row per photo)'
+    : r.options.voltageSource === 'file-names' ? 'the photo file names' : 'the photo series';
+  return html`<section id="sync"><h2><span class="no">6</span>Voltage of each photo</h2>
+<p>Each photo carries its own voltage, read from ${source}, so there is no clock to synchronise and no offset to find.</p>
+<table class="kv"><tr><th>Photos with a voltage</th><td class="num">${r.log.rows}</td></tr>
+<tr><th>Order of the photos</th><td>${r.options.timeBasis === 'exif-capture-time' ? `by capture time (EXIF), over ${formatMeasured(r.log.spanS)} s` : 'by file name (no capture times)'}</td></tr></table>
 </section>`;
 }
 
@@ -235,6 +258,19 @@ function rectText(rect: { x: number; y: number; w: number; h: number } | undefin
 
 function imagesSection(r: RunResult, images: RunReportImages): SafeHtml {
   const g = r.regions;
+  if (r.source === 'stills') {
+    const beam = r.options.roi === undefined ? '(the whole photo)' : '(set by hand)';
+    const maps = images.staticMapPng === undefined && images.modulatedMapPng === undefined
+      ? null
+      : html`<div class="images">
+${imageFigure(images.staticMapPng, 'Static light map', 'Per-pixel intercept of intensity against the modulation term: light that does not follow the voltage.', 'No static light map was supplied to this report.', 'static-map')}
+${imageFigure(images.modulatedMapPng, 'Modulated light map', 'Per-pixel slope against the modulation term: where the Kerr-modulated beam is.', 'No modulated light map was supplied to this report.', 'modulated-map')}
+</div>`;
+    return html`<section id="images"><h2><span class="no">7</span>Photo and regions</h2>
+${imageFigure(images.frameWithRegionsPng, 'A photo with the regions drawn', `The brightest photo used in the fit. Beam region ${beam}: ${rectText(g.beam)}; dark: ${rectText(g.dark)}; reference: ${rectText(g.reference)}.`, 'No photo was supplied to this report.', 'frame')}
+${maps}
+</section>`;
+  }
   return html`<section id="images"><h2><span class="no">7</span>Frame and maps</h2>
 ${imageFigure(images.frameWithRegionsPng, 'Video frame with regions', `Beam region ${g.beamAuto ? '(found automatically)' : '(set by hand)'}: ${rectText(g.beam)}; dark: ${rectText(g.dark)}; surround: ${rectText(g.surround)}; reference: ${rectText(g.reference)}.`, 'No frame image was supplied to this report.', 'frame')}
 <div class="images">
@@ -264,6 +300,7 @@ function optionText(v: unknown): string {
 }
 
 function provenanceSection(r: RunResult): SafeHtml {
+  const stills = r.source === 'stills';
   const options = Object.entries(r.options).map(([k, v]) => html`<tr><td class="mono">${k}</td><td class="wrap mono">${optionText(v)}</td></tr>`);
   const excluded = Object.entries(r.frames.excluded).map(([k, n]) => html`<tr><td>${k}</td><td class="num">${n}</td></tr>`);
   const m = r.model;
@@ -279,17 +316,22 @@ function provenanceSection(r: RunResult): SafeHtml {
 <tr><th>Node.js</th><td>${r.tool.node}</td></tr>
 <tr><th>Result written</th><td>${formatDate(r.createdAt)}</td></tr></table>
 <h3>Camera</h3><table class="kv">
-<tr><th>Frame size</th><td>${r.camera.width} × ${r.camera.height} px</td></tr>
-<tr><th>Frame rate</th><td>${r.camera.fps === null ? 'unknown' : `${formatMeasured(r.camera.fps)} fps`}${r.camera.variableFrameRate ? ' (variable)' : ''}</td></tr>
+<tr><th>${stills ? 'Photo size' : 'Frame size'}</th><td>${r.camera.width} × ${r.camera.height} px</td></tr>
+${stills ? null : html`<tr><th>Frame rate</th><td>${r.camera.fps === null ? 'unknown' : `${formatMeasured(r.camera.fps)} fps`}${r.camera.variableFrameRate ? ' (variable)' : ''}</td></tr>`}
 <tr><th>Transfer / range</th><td>${r.camera.transfer} / ${r.camera.range}</td></tr></table>
-<h3>Voltage log</h3><table class="kv">
+${stills
+    ? html`<h3>Voltages</h3><table class="kv">
+<tr><th>Photos with a voltage</th><td>${r.log.rows}</td></tr>
+<tr><th>Capture-time span</th><td>${r.options.timeBasis === 'exif-capture-time' ? `${formatMeasured(r.log.spanS)} s` : 'no capture times'}</td></tr>
+<tr><th>Temperature</th><td>${r.log.temperatureC === null ? 'not recorded' : formatFigure(figure('temperature'), r.log.temperatureC)}</td></tr></table>`
+    : html`<h3>Voltage log</h3><table class="kv">
 <tr><th>Rows</th><td>${r.log.rows}</td></tr>
 <tr><th>Span</th><td>${formatMeasured(r.log.spanS)} s</td></tr>
 <tr><th>Current column</th><td>${r.log.currentColumn ? 'yes' : 'no'}</td></tr>
-<tr><th>Temperature</th><td>${r.log.temperatureC === null ? 'not recorded' : formatFigure(figure('temperature'), r.log.temperatureC)}</td></tr></table>
+<tr><th>Temperature</th><td>${r.log.temperatureC === null ? 'not recorded' : formatFigure(figure('temperature'), r.log.temperatureC)}</td></tr></table>`}
 </div>
-<div><h3>Frames</h3><table>
-<tr><th>frames</th><th class="num">count</th></tr>
+<div><h3>${stills ? 'Photos' : 'Frames'}</h3><table>
+<tr><th>${stills ? 'photos' : 'frames'}</th><th class="num">count</th></tr>
 <tr><td>total</td><td class="num">${r.frames.total}</td></tr>
 <tr><td>used in the fit</td><td class="num">${r.frames.used}</td></tr>
 ${excluded.length > 0 ? html`<tr><th colspan="2">left out, by reason</th></tr>${excluded}` : null}</table>

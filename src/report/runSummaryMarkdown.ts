@@ -2,7 +2,8 @@
  * summary.md for one run, for pasting into a lab notebook: the headline figures with units and
  * uncertainties (or a plain statement when B cannot be separated from brightness), the warnings
  * with their one-line advice, and the inputs with SHA-256 hashes. User text is escaped with
- * escapeMarkdown. Pure; never throws.
+ * escapeMarkdown. A photo series (result.source "stills") counts photos, says where their
+ * voltages came from and shows no sync offset. Pure; never throws.
  * @example runSummaryMarkdown(result).startsWith('# ') === true
  */
 import { formatNumber } from '../quantity.js';
@@ -11,6 +12,7 @@ import { SAFETY_DEFERENCE } from '../safety/cautions.js';
 import { FIGURES, formatFigure } from './figureCatalogue.js';
 import { escapeMarkdown as md } from './escapeMarkdown.js';
 import { guideAdvice } from './guide.js';
+import { sampleWords } from './sampleWords.js';
 
 export function runSummaryMarkdown(r: RunResult): string {
   const lines: string[] = [];
@@ -29,7 +31,12 @@ export function runSummaryMarkdown(r: RunResult): string {
   if (!r.identifiable) {
     lines.push('**The Kerr constant could not be separated from the brightness of the light.** Record an open level (analyser parallel, no voltage) or, only if the cell is rated for it, a sweep reaching at least 0.6 of the half-wave voltage.', '');
   }
-  lines.push(`Frames: ${r.frames.used} of ${r.frames.total} used${Object.keys(r.frames.excluded).length > 0 ? `; left out: ${Object.entries(r.frames.excluded).map(([k, n]) => `${md(k)} ${n}`).join(', ')}` : ''}. Fit ${r.fit.converged ? 'converged' : 'did NOT converge'} (${md(r.fit.reason)}).`, '');
+  const words = sampleWords(r);
+  if (r.source === 'stills') {
+    const from = r.options.voltageSource === 'csv' ? 'the voltage map' : r.options.voltageSource === 'file-names' ? 'the file names' : 'the photo series';
+    lines.push(`Voltages: each photo carries its own (from ${from}), so there is no clock to synchronise. Photos ordered ${r.options.timeBasis === 'exif-capture-time' ? 'by capture time (time axis: seconds after the first photo)' : 'by file name (time axis: photo order)'}.`, '');
+  }
+  lines.push(`${words.many === 'photos' ? 'Photos' : 'Frames'}: ${r.frames.used} of ${r.frames.total} used${Object.keys(r.frames.excluded).length > 0 ? `; left out: ${Object.entries(r.frames.excluded).map(([k, n]) => `${md(k)} ${n}`).join(', ')}` : ''}. Fit ${r.fit.converged ? 'converged' : 'did NOT converge'} (${md(r.fit.reason)}).`, '');
   lines.push('## Warnings', '');
   if (r.warnings.length === 0) lines.push('None.');
   for (const w of r.warnings) {

@@ -400,7 +400,9 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
   const unreadableNames = photos.filter((_, i) => unreadable[i] !== null);
   if (unreadableNames.length > 0) {
     const firstBad = unreadable.findIndex((u) => u !== null);
-    warn('unreadable', `${unreadableNames.length} photo(s) could not be read and were left out: ${listNames(unreadableNames)} (${photos[firstBad]}: ${unreadable[firstBad]}); re-export them as JPEG, PNG or TIFF`);
+    warn('unreadable', unreadableNames.length === 1
+      ? `${photos[firstBad]} could not be read and was left out (${unreadable[firstBad]}); re-export it as JPEG, PNG or TIFF`
+      : `${unreadableNames.length} photos could not be read and were left out: ${listNames(unreadableNames)} (${photos[firstBad]}: ${unreadable[firstBad]}); re-export them as JPEG, PNG or TIFF`);
   }
   const refPhoto = readable[0]!;
 

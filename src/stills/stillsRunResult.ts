@@ -20,7 +20,7 @@
  *   scale (dark / relative exposure), 0 without --dark-roi.
  * Derived figures as in analyze: contrast ratio = highest / lowest fitted intensity over the
  * voltages used (401-point scan), quarter-wave voltage V_π/√2, floor fraction
- * (fitStillsSeries), linearised cross-check (linearisedCrossCheck).
+ * (fitStillsSeries), linearised cross-check (src/core/fit/linearisedCrossCheck, shared with analyze).
  * Warnings: the reader's (exposure, clipping, regions...) then the fit's ("not-identifiable",
  * "fit-not-converged", "floor-not-positive", "linearised-disagrees"), with guide anchors where
  * one fits. Pure: the caller supplies the clock (createdAt), versions and input hashes.
@@ -33,7 +33,8 @@ import type { GuideAnchor } from '../report/guide.js';
 import { median } from '../measure/exposure.js';
 import type { StillsSeries } from './readStillsSeries.js';
 import { fitStillsSeries, type StillsFit } from './fitStillsSeries.js';
-import { linearisedCrossCheck } from './linearisedCrossCheck.js';
+import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
+import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
 
 export interface StillsCell {
   lengthM: number;
@@ -104,16 +105,20 @@ export function stillsRunResult(input: StillsRunInput): StillsRun {
   const contrastRatio = quantity(lo > 0 ? hi / lo : Infinity);
   if (!(lo > 0)) warn('floor-not-positive', 'the fitted floor is at or below the dark level, so the contrast ratio is unbounded; check the dark and beam regions', 'camera-still');
 
-  const check = linearisedCrossCheck({
+  const linearised = linearisedCrossCheck({
     voltageV: Float64Array.from(usedIndex, (i) => series.voltageV[i]!),
     intensity: Float64Array.from(usedIndex, (i) => series.intensity[i]!),
     outliers: fit.outliers,
-    fit,
+    floorLevel: fit.floorLevel.value,
+    amplitude: fit.amplitude.value,
+    halfWaveVoltageV: fit.halfWaveVoltage.value,
+    fitKerrConstant: fit.kerrConstant,
     polariserAngleDeg: cell.polariserAngleDeg,
     gapM: cell.gapM,
     effectiveLengthM: cell.effectiveLengthM,
   });
-  if (check.warning) warnings.push(check.warning);
+  const disagreement = linearisedDisagreement(linearised, fit.kerrConstant, fit.identifiable);
+  if (disagreement !== null) warn('linearised-disagrees', disagreement);
 
   // Trace: one row per photo.
   const times = series.captureTimeS;
@@ -192,7 +197,7 @@ export function stillsRunResult(input: StillsRunInput): StillsRun {
       converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom,
       starts: fit.starts, robust: fitOptions.robust === false ? 'none' : 'huber', residualAutocorrelation: fit.residualAutocorrelation, errorInflation: fit.errorInflation,
     },
-    linearised: check.linearised,
+    linearised,
     sync: { manual: true, offsetS: 0, sharpnessS: null, ambiguous: false, curve: { offsetS: [], score: [] } },
     frames: { total: n, used: usedIndex.length, excluded: fitted.excluded },
     events,

@@ -92,7 +92,7 @@ describe('kerrtrace stills (real CLI)', () => {
     expect(r.stdout).toMatch(/Kerr constant B/);
     expect(r.stdout).toMatch(/step11_10\.5kV\.jpg .*left out \(clipped\)/);
     expect(r.stdout).toMatch(/^ {2}photos used +11 of 12 \(left out: 1 clipped\)$/m);
-    expect(r.stdout).toMatch(/^ {2}sync offset +none: each photo carries its voltage$/m);
+    expect(r.stdout).toMatch(/^ {2}sync offset +none: each photo carries its voltage \(no clock to synchronise\)$/m);
     const result = readResult(out);
     const relErrB = result.kerrConstant.value / B - 1;
     console.log(`stills round trip: B = ${result.kerrConstant.value.toExponential(4)} ± ${result.kerrConstant.stdErr?.toExponential(2)} m/V^2 (true ${B}), relative error ${(relErrB * 100).toFixed(2)} %; V_pi ${result.halfWaveVoltage.value.toFixed(0)} V (true ${VPI.toFixed(0)} V)`);

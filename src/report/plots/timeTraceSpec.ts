@@ -6,9 +6,13 @@
  * Series longer than MAX_POINTS_PER_SERIES are thinned with min/max decimation; the returned
  * `thinned` flag lets the caption say so. Pure; never throws.
  * Units: time in s (video clock), voltage shown in kV, intensity in the result's linear units.
+ * A photo series (result.source "stills") is drawn against its own axis (sampleWords): seconds
+ * after the first photo when the photos carry EXIF capture times, else photo order; its left-out
+ * points are labelled "excluded photo".
  * @example timeTraceSpec(result, trace).spec.vconcat.length === 2
  */
 import type { RunEvent, RunResult, TraceRow } from '../../result/schema.js';
+import { sampleWords } from '../sampleWords.js';
 import { downsampleMinMax } from './downsampleMinMax.js';
 import { EVENT_STYLE, INTENSITY_TITLE, MAX_POINTS_PER_SERIES, PLOT_CONFIG, SERIES, VEGA_LITE_SCHEMA, type PlotSpecResult, type VegaLiteSpec } from './plotStyle.js';
 
@@ -23,6 +27,8 @@ export function timeTraceSpec(result: RunResult, trace: readonly TraceRow[], max
   const excludedRows = trace.filter((r) => !r.used);
   const excludedIdx = downsampleMinMax(excludedRows.map((r) => r.intensity), maxPoints);
   const events = result.events.slice(0, maxPoints);
+  const words = sampleWords(result);
+  const excludedLabel = words.excludedLabel;
 
   const lines = [
     ...intensityIdx.map((i) => ({ timeS: trace[i]!.timeS, value: trace[i]!.intensity, series: SERIES.measured.label })),
@@ -32,7 +38,7 @@ export function timeTraceSpec(result: RunResult, trace: readonly TraceRow[], max
     timeS: excludedRows[i]!.timeS,
     value: excludedRows[i]!.intensity,
     reason: excludedRows[i]!.excludedReason ?? 'excluded',
-    series: SERIES.excluded.label,
+    series: excludedLabel,
   }));
   const voltage = voltageIdx.map((i) => ({ timeS: voltageRows[i]!.timeS, voltageKv: (voltageRows[i]!.voltageV as number) / 1000 }));
   const eventRows = events.map((e: RunEvent) => ({ timeS: e.timeS, series: e.kind, frameIndex: e.frameIndex, size: e.size }));
@@ -40,11 +46,11 @@ export function timeTraceSpec(result: RunResult, trace: readonly TraceRow[], max
   // One legend for everything drawn in the intensity panel: colour, marker shape and dash all
   // follow the same `series` field, so Vega-Lite merges them into a single legend.
   const eventKindsShown = [...new Set(events.map((e) => e.kind))];
-  const domain = [SERIES.measured.label, SERIES.model.label, SERIES.excluded.label, ...eventKindsShown];
+  const domain = [SERIES.measured.label, SERIES.model.label, excludedLabel, ...eventKindsShown];
   const colour = { field: 'series', type: 'nominal', title: null, scale: { domain, range: [SERIES.measured.colour, SERIES.model.colour, SERIES.excluded.colour, ...eventKindsShown.map((k) => EVENT_STYLE[k]?.colour ?? '#000000')] } };
   const shape = { field: 'series', type: 'nominal', title: null, scale: { domain, range: ['stroke', 'stroke', SERIES.excluded.shape, ...eventKindsShown.map((k) => EVENT_STYLE[k]?.shape ?? 'circle')] } };
   const dash = { field: 'series', type: 'nominal', title: null, scale: { domain, range: [SERIES.measured.dash, SERIES.model.dash, [], ...eventKindsShown.map(() => [])] } };
-  const timeField = { field: 'timeS', type: 'quantitative', title: 'video time (s)' };
+  const timeField = { field: 'timeS', type: 'quantitative', title: words.axisTitle };
   const eventRule = {
     data: { name: 'events' },
     mark: { type: 'rule', strokeDash: [2, 3], strokeWidth: 1, color: '#7b8494' },

@@ -4,12 +4,13 @@
  * recorded range and evaluated from `result.model` with modelIntensity (i.e. with the physics of
  * src/core/physics/kerr.ts), so the drawn curve is exactly the fitted model. It is kept in the
  * spec's `datasets.curve` as {voltageV, voltageKv, intensity} rows.
- * Points: frames used in the fit (circles) and frames left out that have a voltage (crosses);
+ * Points: frames (or photos) used in the fit (circles) and those left out that have a voltage (crosses);
  * thinned with min/max decimation above MAX_POINTS_PER_SERIES. Pure; never throws.
  * Units: voltage shown in kV, intensity in the result's linear (dark-subtracted) units.
  * @example transmissionSpec(result, trace).spec.datasets.curve.length === 401
  */
 import type { RunResult, TraceRow } from '../../result/schema.js';
+import { sampleWords } from '../sampleWords.js';
 import { downsampleMinMax } from './downsampleMinMax.js';
 import { modelIntensity } from './modelIntensity.js';
 import { INTENSITY_TITLE, MAX_POINTS_PER_SERIES, PLOT_CONFIG, SERIES, VEGA_LITE_SCHEMA, type PlotSpecResult, type VegaLiteSpec } from './plotStyle.js';
@@ -18,6 +19,7 @@ export const CURVE_SAMPLES = 401;
 const WIDTH = 740;
 
 export function transmissionSpec(result: RunResult, trace: readonly TraceRow[], maxPoints = MAX_POINTS_PER_SERIES): PlotSpecResult {
+  const { excludedLabel } = sampleWords(result);
   const withVoltage = trace.filter((r) => r.voltageV !== null && Number.isFinite(r.voltageV));
   const usedRows = withVoltage.filter((r) => r.used);
   const excludedRows = withVoltage.filter((r) => !r.used);
@@ -40,11 +42,11 @@ export function transmissionSpec(result: RunResult, trace: readonly TraceRow[], 
   }
   const points = [
     ...usedIdx.map((i) => ({ voltageKv: (usedRows[i]!.voltageV as number) / 1000, intensity: usedRows[i]!.intensity, series: SERIES.measured.label })),
-    ...excludedIdx.map((i) => ({ voltageKv: (excludedRows[i]!.voltageV as number) / 1000, intensity: excludedRows[i]!.intensity, series: SERIES.excluded.label })),
+    ...excludedIdx.map((i) => ({ voltageKv: (excludedRows[i]!.voltageV as number) / 1000, intensity: excludedRows[i]!.intensity, series: excludedLabel })),
   ];
   const residuals = residualIdx.map((i) => ({ voltageKv: (residualRows[i]!.voltageV as number) / 1000, residual: residualRows[i]!.residual }));
 
-  const domain = [SERIES.measured.label, SERIES.excluded.label, SERIES.model.label];
+  const domain = [SERIES.measured.label, excludedLabel, SERIES.model.label];
   const colour = { field: 'series', type: 'nominal', title: null, scale: { domain, range: [SERIES.measured.colour, SERIES.excluded.colour, SERIES.model.colour] } };
   const shape = { field: 'series', type: 'nominal', title: null, scale: { domain, range: [SERIES.measured.shape, SERIES.excluded.shape, 'stroke'] } };
   const dash = { field: 'series', type: 'nominal', title: null, scale: { domain, range: [[], [], SERIES.model.dash] } };
