@@ -1,15 +1,31 @@
 /**
  * Benchmark helper run as a separate Node process: traces a video with the same pipeline as
  * `kerrtrace trace` and prints one JSON line with frames, seconds and the process's peak resident
- * memory (process.resourceUsage().maxRSS, kB), and the CPU seconds of the work (itself plus ffmpeg
+ * memory (VmHWM, kB), and the CPU seconds of the work (itself plus ffmpeg
  * and ffprobe). A separate process so the peak belongs to this work alone.
  *
  * Usage: node dist/bench/traceChild.js VIDEO REGIONS_JSON [MAX_FRAMES|all] [whole]
  * (`whole`: send whole frames through one pipe instead of one crop per region).
  */
+import { readFileSync } from 'node:fs';
 import { traceVideo, type TraceOptions } from '../src/pipeline/trace.js';
 import type { Rect } from '../src/media/types.js';
 import { childrenCpuS, selfCpuS } from './cpuTime.js';
+
+/**
+ * Peak resident memory of this process in kB: VmHWM from /proc/self/status, which starts afresh
+ * at exec (getrusage's maxRSS keeps the parent's high-water mark across fork and exec on Linux, so
+ * it would report the benchmark runner's memory, not this work's). Falls back to maxRSS elsewhere.
+ */
+function peakRssKb(): number {
+  try {
+    const m = /VmHWM:\s+(\d+)\s+kB/.exec(readFileSync('/proc/self/status', 'utf8'));
+    if (m) return Number(m[1]);
+  } catch {
+    // not Linux
+  }
+  return process.resourceUsage().maxRSS;
+}
 
 const [video, regionsJson, maxFramesText, mode] = process.argv.slice(2);
 if (!video || !regionsJson) {
@@ -26,7 +42,7 @@ try {
   const trace = await traceVideo(video, opts);
   const seconds = Number(process.hrtime.bigint() - start) / 1e9;
   const cpuS = selfCpuS() + childrenCpuS() - cpuStartS; // this process plus ffmpeg and ffprobe
-  process.stdout.write(`${JSON.stringify({ frames: trace.frames, seconds, cpuS, maxRssKb: process.resourceUsage().maxRSS, crops: trace.crops.length })}\n`);
+  process.stdout.write(`${JSON.stringify({ frames: trace.frames, seconds, cpuS, maxRssKb: peakRssKb(), crops: trace.crops.length })}\n`);
 } catch (e) {
   process.stdout.write(`${JSON.stringify({ error: e instanceof Error ? e.message : String(e) })}\n`);
   process.exitCode = 1;

@@ -207,7 +207,9 @@ async function decodePass(path: string, probe: ProbeResult, decoding: CameraDeco
     const crop = stream.crops[k]!;
     const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
     const { pieces, ringOf } = nestedPieces(local);
-    return { members: g, ringOf, meter: createRegionMeter(crop.w, crop.h, pieces, decoding), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
+    // Rings (pieces outside the innermost region) hold slowly varying background: every other row.
+    const strides = ringOf.map((k) => (k > 0 ? 2 : 1));
+    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
   });
   const acc = new Float64Array(5);
   const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
@@ -231,7 +233,7 @@ async function decodePass(path: string, probe: ProbeResult, decoding: CameraDeco
         // cumulative sums: rect m = rect m−1 plus the pieces of ring m
         while (piece < parts.length && plan.ringOf[piece] === m) {
           const p = parts[piece]!;
-          const c = p.pixelCount;
+          const c = plan.pieces[piece]!.w * plan.pieces[piece]!.h; // the piece's area, also when rows were skipped
           acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
           piece++;
         }
