@@ -612,9 +612,11 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     }
     for (let j = 0; j < fitIdx.length; j++) if (flagged[j]) excluded[useIdx[fitIdx[j]!]!] = 'particle';
     fitIdx = fitIdx.filter((_k, j) => !flagged[j]);
+    // a refit near the solution just found: start from it (and the sync's guess) only
     fit = fitKerrCurve({
       voltageV: Float64Array.from(fitIdx, (k) => vFit[k]!), intensity: Float64Array.from(fitIdx, (k) => iFit[k]!),
       voltageSigmaV: Float64Array.from(fitIdx, (k) => sFit[k]!), ...fitInput,
+      halfWaveGuessesV: [fit.halfWaveVoltage.value, ...(vpiHint !== undefined ? [vpiHint] : [])], onlyGivenStarts: true,
     });
   }
   useIdx.splice(0, useIdx.length, ...fitIdx.map((k) => useIdx[k]!));
@@ -655,6 +657,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   let channels: RunResult['channels'];
   if (m.channelIntensity) {
     const ci = m.channelIntensity;
+    const vpi0 = fit.halfWaveVoltage.value;
     const one = (series: Float64Array): Quantity => {
       try {
         // The open level is a luminance figure, so each channel fits its own amplitude.
@@ -663,6 +666,8 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
         const f = fitKerrCurve({
           voltageV: vUsed, intensity: Float64Array.from(useIdx, (i) => series[i]!),
           voltageSigmaV: Float64Array.from(useIdx, (i) => sigmaAll[i]!), ...channelInput,
+          // a channel's V_π lies near the luminance fit's (dispersion is tens of per cent at most)
+          halfWaveGuessesV: [vpi0, 0.8 * vpi0, 1.25 * vpi0], onlyGivenStarts: true,
         });
         return f.identifiable ? f.kerrConstant : quantity(NaN, undefined, 'm/V^2');
       } catch {

@@ -233,6 +233,7 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
       staticRetardanceRad: result.model.staticRetardanceRad,
       openLevel: fit.amplitude.value,
       halfWaveGuessesV: [fit.halfWaveVoltage.value],
+      onlyGivenStarts: true, // each branch lies near the full fit
       // outliers and events are already left out (`clean`); plain least squares keeps this quick
       robust: false,
     }),

@@ -33,6 +33,8 @@ export interface KerrCurveInput {
   openLevel?: number;
   /** Extra V_π start guesses (V), e.g. from the sync search. */
   halfWaveGuessesV?: number[];
+  /** Start only from `halfWaveGuessesV` (a refit near a known solution), not from the log-spaced grid. */
+  onlyGivenStarts?: boolean;
   robust?: boolean;
   /** Standard uncertainty of each point's voltage (V); adds (dI/dV·σ_V)² to that point's variance. */
   voltageSigmaV?: Float64Array;
@@ -193,8 +195,9 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
 
   // Start guesses for V_π: log-spaced from 0.35·Vmax to 6·Vmax, plus hints.
   const guesses: number[] = [];
-  for (let k = 0; k < 10; k++) guesses.push(vMax * 0.35 * Math.pow(6 / 0.35, k / 9));
-  for (const g of input.halfWaveGuessesV ?? []) if (Number.isFinite(g) && g > 0) guesses.push(g);
+  const given = (input.halfWaveGuessesV ?? []).filter((g) => Number.isFinite(g) && g > 0);
+  if (!(input.onlyGivenStarts && given.length > 0)) for (let k = 0; k < 10; k++) guesses.push(vMax * 0.35 * Math.pow(6 / 0.35, k / 9));
+  guesses.push(...given);
 
   const upper = fixedAmp === null ? [Infinity, Infinity, 60 * vMax] : [Infinity, 60 * vMax];
   const lower = fixedAmp === null ? [-Infinity, 0, 0.05 * vMax] : [-Infinity, 0.05 * vMax];
