@@ -641,7 +641,15 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     const m = fit.predict(v);
     hi = Math.max(hi, m); lo = Math.min(lo, m);
   }
-  const contrastRatio = quantity(lo > 0 ? hi / lo : Infinity);
+  // Error by first-order propagation from the floor and amplitude errors (their correlation
+  // ignored): I = I_floor + I_amp·t, so σ_I² = σ_floor² + t²·σ_amp², t = (I − I_floor)/I_amp.
+  const sigmaAt = (level: number): number => {
+    const t = amp.value > 0 ? (level - floor.value) / amp.value : 0;
+    return Math.sqrt((floor.stdErr ?? 0) ** 2 + (t * (amp.stdErr ?? 0)) ** 2);
+  };
+  const contrastRatio = lo > 0
+    ? quantity(hi / lo, (hi / lo) * Math.hypot(sigmaAt(hi) / hi, sigmaAt(lo) / lo))
+    : quantity(Infinity);
   if (!(lo > 0)) warn('floor-not-positive', 'the fitted floor is at or below the surround level, so the contrast ratio is unbounded; check the dark and beam regions', 'camera-still');
 
   // linearised reduction on the first branch, compared with the fit
