@@ -30,10 +30,11 @@
  *   console.log(frame.index, frame.timeS, frame.data[0]); // copy what you keep: data is reused
  * }
  */
-import { KerrError, invalid } from '../errors.js';
+import { invalid } from '../errors.js';
 import { validateRect } from '../measure/rect.js';
-import { probeMedia, type ProbeResult } from './probe.js';
-import { runRawPipes, yuv420FrameBytes, type ChildExit, type RawPipesPlan, type RawPipesRun } from './rawVideoPipes.js';
+import type { ProbeResult } from './probe.js';
+import { plannedStream, type PlannedStream } from './plannedStream.js';
+import { yuv420FrameBytes, type RawPipesPlan } from './rawVideoPipes.js';
 import type { Frame, Rect } from './types.js';
 
 export { yuv420FrameBytes, type ChildExit } from './rawVideoPipes.js';
@@ -63,18 +64,7 @@ export interface FrameStreamLayout {
   pixelFormat: 'yuv420p' | 'yuvj420p';
 }
 
-export interface FrameStream extends AsyncIterable<Frame> {
-  /** Probe result and output geometry (runs the probe if needed; the iteration uses the same). */
-  layout(): Promise<FrameStreamLayout>;
-  /** Resolves when the ffmpeg child has exited and been reaped; null if it was never started. */
-  closed(): Promise<ChildExit | null>;
-  /** Frames delivered so far. */
-  readonly framesRead: number;
-  /** Process id of the ffmpeg child once started. */
-  readonly pid: number | undefined;
-  /** Remarks about timing made while streaming (e.g. more frames than timestamps). */
-  readonly notes: readonly string[];
-}
+export type FrameStream = PlannedStream<FrameStreamLayout, Frame>;
 
 /** Widens a rectangle to even left/top and even right/bottom (or the frame edge). */
 export function alignCrop(rect: Rect, frameWidth: number, frameHeight: number): Rect {
@@ -125,46 +115,7 @@ function planLayout(probe: ProbeResult, opts: FrameStreamOptions): { layout: Fra
 }
 
 export function openFrameStream(path: string, opts: FrameStreamOptions = {}): FrameStream {
-  let planned: Promise<ReturnType<typeof planLayout>> | undefined;
-  let run: RawPipesRun | undefined;
-  let started = false;
-  let framesRead = 0;
-
-  const plan = (): Promise<ReturnType<typeof planLayout>> => {
-    planned ??= (async () => {
-      const probe = opts.probe ?? (await probeMedia(path, opts.signal === undefined ? {} : { signal: opts.signal }));
-      return planLayout(probe, opts);
-    })();
-    return planned;
-  };
-
-  async function* frames(): AsyncGenerator<Frame, void, undefined> {
-    const { layout, plan: rawPlan } = await plan();
-    opts.signal?.throwIfAborted();
-    const pipeOptions: Parameters<typeof runRawPipes>[1] = {};
-    if (opts.onProgress) pipeOptions.onProgress = opts.onProgress;
-    if (opts.signal) pipeOptions.signal = opts.signal;
-    run = runRawPipes(rawPlan, pipeOptions);
-    for await (const set of run.frames) {
-      framesRead = set.index + 1;
-      yield { index: set.index, timeS: set.timeS, width: layout.width, height: layout.height, data: set.buffers[0]! };
-    }
-  }
-
-  return {
-    [Symbol.asyncIterator](): AsyncIterator<Frame> {
-      if (started) throw new KerrError('INTERNAL', 'a frame stream can be read only once; open a new one');
-      started = true;
-      return frames();
-    },
-    layout: async () => (await plan()).layout,
-    closed: async () => {
-      if (!started) return null;
-      try { await plan(); } catch { return null; }
-      return run ? run.exited : null;
-    },
-    get framesRead() { return framesRead; },
-    get pid() { return run?.pid; },
-    get notes() { return run?.notes ?? []; },
-  };
+  return plannedStream(path, opts, (probe) => planLayout(probe, opts),
+    (set, layout): Frame => ({ index: set.index, timeS: set.timeS, width: layout.width, height: layout.height, data: set.buffers[0]! }),
+    'frame stream');
 }

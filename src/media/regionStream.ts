@@ -18,9 +18,10 @@
  */
 import { KerrError } from '../errors.js';
 import { validateRect } from '../measure/rect.js';
-import { alignCrop, expectedFrameCount, rawPixelFormat, type ChildExit } from './frameStream.js';
-import { probeMedia, type ProbeResult } from './probe.js';
-import { runRawPipes, type RawPipesPlan, type RawPipesRun } from './rawVideoPipes.js';
+import { alignCrop, expectedFrameCount, rawPixelFormat } from './frameStream.js';
+import type { ProbeResult } from './probe.js';
+import { plannedStream, type PlannedStream } from './plannedStream.js';
+import type { RawPipesPlan } from './rawVideoPipes.js';
 import type { Frame, Rect } from './types.js';
 
 export interface RegionFrames {
@@ -46,13 +47,7 @@ export interface RegionStreamLayout {
   expectedFrames: number;
 }
 
-export interface RegionStream extends AsyncIterable<RegionFrames> {
-  layout(): Promise<RegionStreamLayout>;
-  closed(): Promise<ChildExit | null>;
-  readonly framesRead: number;
-  readonly pid: number | undefined;
-  readonly notes: readonly string[];
-}
+export type RegionStream = PlannedStream<RegionStreamLayout, RegionFrames>;
 
 function planRegions(probe: ProbeResult, regions: readonly Rect[], opts: RegionStreamOptions): { layout: RegionStreamLayout; plan: RawPipesPlan } {
   if (regions.length === 0) throw new KerrError('BAD_ARGUMENT', 'no region to read', { hint: 'Give at least one region' });
@@ -75,47 +70,11 @@ function planRegions(probe: ProbeResult, regions: readonly Rect[], opts: RegionS
 }
 
 export function openRegionStream(path: string, regions: readonly Rect[], opts: RegionStreamOptions = {}): RegionStream {
-  let planned: Promise<ReturnType<typeof planRegions>> | undefined;
-  let run: RawPipesRun | undefined;
-  let started = false;
-  let framesRead = 0;
-
-  const plan = (): Promise<ReturnType<typeof planRegions>> => {
-    planned ??= (async () => {
-      const probe = opts.probe ?? (await probeMedia(path, opts.signal === undefined ? {} : { signal: opts.signal }));
-      return planRegions(probe, regions, opts);
-    })();
-    return planned;
-  };
-
-  async function* frames(): AsyncGenerator<RegionFrames, void, undefined> {
-    const { layout, plan: rawPlan } = await plan();
-    opts.signal?.throwIfAborted();
-    const pipeOptions: Parameters<typeof runRawPipes>[1] = {};
-    if (opts.onProgress) pipeOptions.onProgress = opts.onProgress;
-    if (opts.signal) pipeOptions.signal = opts.signal;
-    run = runRawPipes(rawPlan, pipeOptions);
-    for await (const set of run.frames) {
-      framesRead = set.index + 1;
-      const regionFrames = layout.crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[k]! }));
-      yield { index: set.index, timeS: set.timeS, regions: regionFrames };
-    }
-  }
-
-  return {
-    [Symbol.asyncIterator](): AsyncIterator<RegionFrames> {
-      if (started) throw new KerrError('INTERNAL', 'a region stream can be read only once; open a new one');
-      started = true;
-      return frames();
-    },
-    layout: async () => (await plan()).layout,
-    closed: async () => {
-      if (!started) return null;
-      try { await plan(); } catch { return null; }
-      return run ? run.exited : null;
-    },
-    get framesRead() { return framesRead; },
-    get pid() { return run?.pid; },
-    get notes() { return run?.notes ?? []; },
-  };
+  return plannedStream(path, opts, (probe) => planRegions(probe, regions, opts),
+    (set, layout): RegionFrames => ({
+      index: set.index,
+      timeS: set.timeS,
+      regions: layout.crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[k]! })),
+    }),
+    'region stream');
 }
