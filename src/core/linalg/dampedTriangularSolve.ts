@@ -8,7 +8,7 @@
  * The √λ·D rows are folded into a copy of R one at a time by Givens rotations, leaving an upper
  * triangular S with SᵀS = RᵀR + λ·D_P², then S·z = rotated right-hand side is back-substituted.
  * This is the method of MINPACK's `qrsolv` (Moré, "The Levenberg–Marquardt algorithm:
- * implementation and theory", Lecture Notes in Mathematics 630, 1978, §3); it never forms JᵀJ,
+ * implementation and theory", Springer LNM 630, 1978, §3); it never forms JᵀJ,
  * so it stays accurate on ill-conditioned problems.
  *
  * Inputs: `qr`, `rows`, `rdiag`, `pivot` exactly as left by `householderQr` (n = cols columns);
