@@ -94,6 +94,8 @@ function analyzeLike(o: SyntheticOptions, extra: { reference?: boolean; currentC
     result, trace, grid: { data: run.grid, frames, gridWidth: gw, gridHeight: gh, step },
     frameTimesS: run.timesS, intensity: run.intensity, modulation, usable, fit, info,
     decoding: { range: 'limited', matrix: 'bt709', transfer: 'srgb', clipCode: 254 },
+    // not used by the scatter stage when gain and log are passed in
+    gain: run.gain, log: undefined as never, measured: undefined as never,
   };
   return { out, run, fit, flashes };
 }

@@ -9,7 +9,7 @@ function series(): StillsSeries {
     roi: { x: 0, y: 0, w: 2, h: 2 }, roiIsWholeFrame: false, darkRoi: { x: 5, y: 5, w: 2, h: 2 }, referenceRoi: null,
     roiLinear: Float64Array.from([0.06, 0.26, NaN]), darkLinear: Float64Array.from([0.01, 0.01, NaN]), referenceLinear: null,
     exposureBasis: 'exif', exposureFactors: ['exposure time'], voltageSource: 'file-names', transfers: ['srgb', 'srgb', 'srgb'], bitDepths: [8, 8, null],
-    unreadable: [null, null, 'broken'], captureTimeS: null, leftOut: [],
+    unreadable: [null, null, 'broken'], captureTimeS: null, leftOut: [], openPhoto: null,
   };
 }
 

@@ -55,7 +55,7 @@ export interface SyntheticRun {
   /** Beam box mean − surround ring mean, divided by the gain, per frame. */
   intensity: Float64Array;
   beamBox: { x0: number; y0: number; x1: number; y1: number };
-  options: Required<Omit<SyntheticOptions, 'gain' | 'halfWaveDownV' | 'card'>> & Pick<SyntheticOptions, 'halfWaveDownV' | 'card'>;
+  options: Required<Omit<SyntheticOptions, 'gain' | 'halfWaveDownV' | 'card'>> & { halfWaveDownV?: number | undefined; card?: SyntheticOptions['card'] | undefined };
   /** Planted halo value S·H at a block. */
   halo(x: number, y: number): number;
   beam(x: number, y: number): number;
