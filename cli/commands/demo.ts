@@ -7,6 +7,7 @@ import { relative } from 'node:path';
 import { action } from '../action.js';
 import { formatQuantity } from '../../src/quantity.js';
 import { makeProgress } from '../progress.js';
+import { DEMO_PHOTO_DARK_ROI, DEMO_PHOTO_ROI } from '../../src/demo/demoScenarios.js';
 import { toolVersionInfo } from '../versions.js';
 
 export function register(program: Command): void {
@@ -64,6 +65,9 @@ export function register(program: Command): void {
       lines.push('change between the runs');
       for (const v of out.comparison.verdicts) lines.push(`  ${v}`);
       lines.push(`  report              ${relative(process.cwd(), out.comparisonDir)}/comparison.html`);
+      lines.push('');
+      lines.push('photos of the after run at twelve voltages, for the photo-series command:');
+      lines.push(`  npx kerrtrace stills ${relative(process.cwd(), out.photosDir)} --length-mm 40 --gap-mm 4 --roi ${DEMO_PHOTO_ROI} --dark-roi ${DEMO_PHOTO_DARK_ROI}`);
       lines.push('');
       lines.push(`All files are in ${relative(process.cwd(), out.outDir) || '.'}/ (finished in ${((Date.now() - started) / 1000).toFixed(1)} s).`);
       lines.push('Next: film your own run (docs/recording-a-run.md) and run `npx kerrtrace analyze VIDEO --volts LOG.csv --length-mm L --gap-mm D`.');

@@ -88,3 +88,6 @@ export const DEMO_AFTER = {
 /** The cell geometry the demo analyses with (the same as the scenarios above). */
 export const DEMO_CELL = { lengthMm: cell.lengthMm, gapMm: cell.gapMm, electrodeHeightMm: cell.electrodeHeightMm, wavelengthNm: light.wavelengthNm };
 export const DEMO_REFERENCE_ROI = { x: 24, y: 184, w: 42, h: 32 };
+/** The beam (σ = 10 px around 190, 110) ± 1.5 σ and a dark corner, for the demo's photo series. */
+export const DEMO_PHOTO_ROI = '175,95,31,31';
+export const DEMO_PHOTO_DARK_ROI = '250,10,60,40';

@@ -3,6 +3,8 @@
  * scenarios, analyse both, compare them and write everything under one folder.
  */
 import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import sharp from 'sharp';
+import { renderStillPhotos } from '../sim/renderStillPhotos.js';
 import { join, resolve } from 'node:path';
 import { KerrError } from '../errors.js';
 import { sha256File } from '../io/sha256File.js';
@@ -32,6 +34,8 @@ export interface DemoOutput {
   runs: { name: string; dir: string; out: AnalyzeOutput }[];
   comparison: Comparison;
   comparisonDir: string;
+  /** JPEG photos of the after run at twelve voltages (voltages in the file names). */
+  photosDir: string;
 }
 
 /**
@@ -77,11 +81,23 @@ export async function runDemo(o: DemoOptions): Promise<DemoOutput> {
     });
     runs.push({ name, dir, out });
   }
+  // A photo series of the purified liquid, for `kerrtrace stills` (printed as the next command).
+  o.onStage?.('photographing the after run at twelve voltages');
+  const photosDir = join(outDir, 'after', 'photos');
+  mkdirSync(photosDir, { recursive: true });
+  const vpi = runs[1]!.out.result.halfWaveVoltage.value;
+  const voltages = Array.from({ length: 12 }, (_, i) => Math.round((1.1 * vpi * i) / 11 / 50) * 50);
+  const photos = renderStillPhotos(DEMO_AFTER, voltages, 'built-in demo scenario "after" (photos)');
+  for (const [i, p] of photos.entries()) {
+    const name = `step${String(i + 1).padStart(2, '0')}_${(p.voltageV / 1000).toFixed(2)}kV.jpg`;
+    await sharp(p.rgb, { raw: { width: p.width, height: p.height, channels: 3 } }).jpeg({ quality: 95 }).toFile(join(photosDir, name));
+  }
+
   o.onStage?.('comparing the runs');
   const comparison = compareRuns(runs.map((r) => r.out.result), ['before purification', 'after purification'], {
     sources: await Promise.all(runs.map(async (r) => ({ path: join(r.dir, 'result.json'), sha256: await sha256File(join(r.dir, 'result.json')) }))),
   });
   const comparisonDir = join(outDir, 'comparison');
   await writeComparison(comparisonDir, comparison, { force: true, toolVersion: o.toolVersion });
-  return { outDir, runs, comparison, comparisonDir };
+  return { outDir, runs, comparison, comparisonDir, photosDir };
 }
