@@ -24,8 +24,11 @@ program
   .name('kerrtrace')
   .description('Measure a liquid Kerr cell from camera footage and a voltage log.')
   .option('-V, --version', 'print the tool and ffmpeg versions')
-  .showHelpAfterError('(run with --help for usage)')
-  .exitOverride();
+  .exitOverride()
+  // Usage errors read like every other error: one line, "kerrtrace: ...", with the way out.
+  .configureOutput({
+    outputError: (text, write) => write(`kerrtrace: ${text.trim().replace(/^error: /, '')}. Run \`kerrtrace --help\` (or COMMAND --help) for usage\n`),
+  });
 
 program.on('option:version', () => {
   process.stdout.write(`${versionText()}\n`);

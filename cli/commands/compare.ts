@@ -40,7 +40,7 @@ function uniqueLabels(labels: string[]): string[] {
 export function register(program: Command): void {
   program
     .command('compare')
-    .description('Compare two or more analysed runs (e.g. before and after purifying the liquid): figures, changes with uncertainties, plain verdicts.')
+    .description('compare two or more analysed runs (e.g. before and after purifying the liquid): figures, changes with uncertainties, plain verdicts')
     .argument('<results...>', 'result.json files, or the run folders that hold them, in time order')
     .requiredOption('--out <dir>', 'folder for comparison.html, comparison.json, comparison.csv, summary.md and plots')
     .option('--force', 'replace an earlier comparison in --out')

@@ -51,7 +51,7 @@ function toRequest(o: DesignOptions): DesignRequest {
 export function register(program: Command): void {
   program
     .command('design')
-    .description('Half-wave voltage, fields, capacitance, charging and breakdown margin of a planned Kerr cell (prints safety cautions).')
+    .description('plan a cell: half-wave voltage, fields, capacitance, charging and breakdown margin (prints safety cautions)')
     .option('--kerr-constant <B>', 'Kerr constant in m/V^2 (SI)')
     .option('--kerr-constant-cm <B>', 'Kerr constant in cm/V^2 (older tables); converted ×1e-2')
     .option('--liquid <name>', `take B (and permittivity where known) from the built-in table: ${liquidNames().join(', ')}`)

@@ -62,7 +62,7 @@ export function defaultStillsOutDir(folder: string): string {
 export function register(program: Command): void {
   program
     .command('stills')
-    .description('Kerr constant and half-wave voltage from a folder of photos taken at known voltages (JPEG, PNG, TIFF)')
+    .description('measure the Kerr constant and half-wave voltage from a folder of photos taken at known voltages (JPEG, PNG, TIFF)')
     .argument('<folder>', 'folder holding the photos')
     .option('--volts <csv>', 'CSV with a file column and a voltage column (default: voltages from the file names, e.g. step07_12.5kV.jpg)')
     .option('--length-mm <L>', 'electrode length along the beam, mm')
