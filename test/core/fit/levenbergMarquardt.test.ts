@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { levenbergMarquardt, type CurveModel } from '../../../src/core/fit/levenbergMarquardt.js';
 import { KerrError } from '../../../src/errors.js';
 import { NIST_MODELS, NIST_NAMES, expectedDof, loadNist, type NistSet } from './nistModels.js';
-import { seededNormal } from './random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 const relErr = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 

@@ -2,7 +2,7 @@ import { linearRegression, rSquared } from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
 import { fitLine } from '../../../src/core/fit/lineFit.js';
 import { KerrError } from '../../../src/errors.js';
-import { seededNormal } from './random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 // Anscombe's quartet, data set I (F. J. Anscombe, "Graphs in statistical analysis",
 // The American Statistician 27, 1973): published summary y = 3.00 + 0.500·x, residual sum of

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { linearisedKerr } from '../../../src/core/fit/linearisedKerr.js';
 import { crossedTransmission, halfWaveVoltageV, retardanceRad } from '../../../src/core/physics/kerr.js';
 import { KerrError } from '../../../src/errors.js';
-import { seededNormal } from './random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 // Nitrobenzene B = 2.4e-12 m/V² (J. Lux, "Electro-optical theory" web notes: 2.4e-10 cm/V²) in a
 // cell of our own: gap 5 mm, length 5 cm → V_π = d/√(2BL) ≈ 10206 V.

@@ -4,7 +4,7 @@ import { multiStart, multiStartWith } from '../../../src/core/fit/multiStart.js'
 import { fitRobust } from '../../../src/core/fit/robustFit.js';
 import { KerrError } from '../../../src/errors.js';
 import { kerrSweep, kerrSweepModel } from './kerrCurve.js';
-import { seededNormal } from './random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 // A sweep to 1.8·V_π: the transmission rises, peaks at V_π, falls and rises again, so single
 // starts can settle on wrong branches (DESIGN.md, "Identifiability"). Scenario of our own.

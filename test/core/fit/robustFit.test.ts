@@ -3,7 +3,7 @@ import { levenbergMarquardt, type CurveModel } from '../../../src/core/fit/leven
 import { fitRobust } from '../../../src/core/fit/robustFit.js';
 import { KerrError } from '../../../src/errors.js';
 import { kerrSweep, kerrSweepModel } from './kerrCurve.js';
-import { seededNormal, seededRandom } from './random.js';
+import { seededNormal, seededRandom } from '../../helpers/random.js';
 
 const truth = [5, 100, 10000]; // floor, amplitude (counts), V_π (V): a scenario of our own
 const volts = Array.from({ length: 200 }, (_, i) => (12000 * i) / 199);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { MAD_TO_SIGMA, median, robustScale } from '../../../src/core/fit/robustScale.js';
-import { seededNormal } from './random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 describe('robustScale (MAD × 1/Φ⁻¹(3/4))', () => {
   it('uses the normal-consistency factor 1/0.6744897501960817 (standard normal quartile, Abramowitz & Stegun table 26.1)', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { dampedTriangularSolve } from '../../../src/core/linalg/dampedTriangularSolve.js';
 import { applyQrTranspose, householderQr } from '../../../src/core/linalg/householderQr.js';
-import { seededNormal } from '../fit/random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 /** Solves the small dense system M·z = b by Gaussian elimination with partial pivoting (test oracle). */
 function gaussSolve(mat: number[][], rhs: number[]): number[] {

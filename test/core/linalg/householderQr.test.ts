@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { applyQrTranspose, householderQr } from '../../../src/core/linalg/householderQr.js';
-import { seededNormal } from '../fit/random.js';
+import { seededNormal } from '../../helpers/random.js';
 
 /** Column-major copy of a row-major nested array. */
 const columnMajor = (rows: number[][]): Float64Array => {

@@ -61,21 +61,9 @@ export interface SyntheticRun {
   beam(x: number, y: number): number;
 }
 
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-export function normalSource(seed: number): () => number {
-  const rand = mulberry32(seed);
-  return () => Math.sqrt(-2 * Math.log(Math.max(rand(), 1e-12))) * Math.cos(2 * Math.PI * rand());
-}
+/** The shared seeded generators (test/helpers/random.ts), under the names these tests use. */
+export { seededRandom as mulberry32, seededNormal as normalSource } from '../../helpers/random.js';
+import { seededNormal as normalSource } from '../../helpers/random.js';
 
 export function makeSyntheticRun(o: SyntheticOptions = {}): SyntheticRun {
   const opt = {
