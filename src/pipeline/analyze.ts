@@ -23,7 +23,8 @@ import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
-import { findBeam, type CellBox } from '../core/regions/findBeam.js';
+import { findBeam } from '../core/regions/findBeam.js';
+import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
@@ -139,9 +140,6 @@ function grow(r: Rect, by: number, w: number, h: number): Rect {
   return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
 }
 
-function cellsToRect(b: CellBox, step: number): Rect {
-  return { x: b.x0 * step, y: b.y0 * step, w: (b.x1 - b.x0 + 1) * step, h: (b.y1 - b.y0 + 1) * step };
-}
 
 
 /** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
@@ -340,12 +338,12 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
     beamAuto = true;
     const gw = grid.gridWidth, gh = grid.gridHeight;
-    const growCells = (c: CellBox, by: number): CellBox => ({ x0: Math.max(0, c.x0 - by), y0: Math.max(0, c.y0 - by), x1: Math.min(gw - 1, c.x1 + by), y1: Math.min(gh - 1, c.y1 + by) });
+    const growCells = (c: CellBox, by: number): CellBox => growCellBox(c, by, gw, gh);
     const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);
     const ring = Math.max(2, Math.round(size / 3));
     const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
-    beamRect = cellsToRect(found.beam, grid.step);
-    geom = { beam: beamRect, a0: cellsToRect(boxes[1], grid.step), a1: cellsToRect(boxes[2], grid.step), b1: cellsToRect(boxes[3], grid.step) };
+    beamRect = cellBoxToRect(found.beam, grid.step);
+    geom = { beam: beamRect, a0: cellBoxToRect(boxes[1], grid.step), a1: cellBoxToRect(boxes[2], grid.step), b1: cellBoxToRect(boxes[3], grid.step) };
     // The grid reads luminance as if every pixel were grey, which is fast and fine for finding the
     // beam but not proportional for coloured light; a second pass reads the beam and its rings at
     // full resolution with the full colour decoding (the decode is the cost; the meter is cheap).

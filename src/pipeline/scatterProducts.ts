@@ -44,7 +44,7 @@ import { outsideBoxSeries } from '../core/scatter/boxSeries.js';
 import { referenceGain } from '../core/scatter/referenceGain.js';
 import { hysteresis as fitHysteresis } from '../core/scatter/hysteresis.js';
 import { liquidResistivity } from '../core/scatter/resistivity.js';
-import { growCellBox, rectToCellBox, cellBoxArea, type CellBox } from '../core/scatter/cellGeometry.js';
+import { growCellBox, rectToCellBox, cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
 import { renderMapPng } from '../maps/renderMapPng.js';
 import { encodeMapFiles } from '../maps/encodeMapFiles.js';
 import { renderRegionOverlay, type OverlayRegion } from '../maps/renderRegionOverlay.js';

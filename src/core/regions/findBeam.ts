@@ -2,24 +2,16 @@
  * Finds the modulated beam on a decimated luminance grid stored for every frame: the block whose
  * light varies most over the run (95th minus 5th percentile over time, so that a few flashes do
  * not count), grown to its 4-connected neighbours that vary at least `threshold` times as much.
- * Also proposes a surround annulus (a ring of blocks just outside the beam) for the local
- * background. Pure; throws KerrError BAD_REGION when nothing in the frame follows the drive.
+ * Pure; throws KerrError BAD_REGION when nothing in the frame follows the drive.
  */
 import { KerrError } from '../../errors.js';
 import { percentileSorted } from '../stats/percentileSorted.js';
+import { floodFill, type CellBox } from './cellGeometry.js';
 
-export interface CellBox {
-  x0: number; // inclusive block indices
-  y0: number;
-  x1: number;
-  y1: number;
-}
+export type { CellBox };
 
 export interface BeamCells {
   beam: CellBox;
-  /** Annulus = outer minus inner (inner is the beam grown by a gap). */
-  surroundInner: CellBox;
-  surroundOuter: CellBox;
   /** Temporal variation (p95 − p5) of the strongest block and its median over the grid. */
   peakRange: number;
   medianRange: number;
@@ -70,39 +62,6 @@ export function findBeam(input: FindBeamInput): BeamCells {
       hint: 'Give the beam region with --roi x,y,w,h (see `kerrtrace trace` to check a region)',
     });
   }
-  // Flood fill from the peak.
-  const limit = threshold * peakRange;
-  const seen = new Uint8Array(cells);
-  const stack = [peak];
-  seen[peak] = 1;
-  const box: CellBox = { x0: peak % gw, y0: Math.floor(peak / gw), x1: peak % gw, y1: Math.floor(peak / gw) };
-  while (stack.length > 0) {
-    const c = stack.pop()!;
-    const x = c % gw;
-    const y = (c - x) / gw;
-    box.x0 = Math.min(box.x0, x); box.x1 = Math.max(box.x1, x);
-    box.y0 = Math.min(box.y0, y); box.y1 = Math.max(box.y1, y);
-    const nb = [x > 0 ? c - 1 : -1, x < gw - 1 ? c + 1 : -1, y > 0 ? c - gw : -1, y < gh - 1 ? c + gw : -1];
-    for (const m of nb) {
-      if (m >= 0 && !seen[m] && rangeMap[m]! >= limit) {
-        seen[m] = 1;
-        stack.push(m);
-      }
-    }
-  }
-  const size = Math.max(box.x1 - box.x0 + 1, box.y1 - box.y0 + 1);
-  const gap = 1;
-  const ring = Math.max(2, Math.round(size / 2));
-  const grow = (b: CellBox, by: number): CellBox => ({
-    x0: Math.max(0, b.x0 - by), y0: Math.max(0, b.y0 - by),
-    x1: Math.min(gw - 1, b.x1 + by), y1: Math.min(gh - 1, b.y1 + by),
-  });
-  return {
-    beam: box,
-    surroundInner: grow(box, gap),
-    surroundOuter: grow(box, gap + ring),
-    peakRange,
-    medianRange,
-    rangeMap,
-  };
+  const { box } = floodFill(rangeMap, gw, gh, peak, threshold * peakRange);
+  return { beam: box, peakRange, medianRange, rangeMap };
 }

@@ -11,7 +11,7 @@
  * @example boxSeries(grid, 100, 40, 30, { x0: 2, y0: 2, x1: 5, y1: 5 })[0] → 0.18
  */
 import { KerrError } from '../../errors.js';
-import { cellBoxArea, type CellBox } from './cellGeometry.js';
+import { cellBoxArea, type CellBox } from '../regions/cellGeometry.js';
 
 function checkBox(box: CellBox, gridWidth: number, gridHeight: number): void {
   if (box.x0 < 0 || box.y0 < 0 || box.x1 >= gridWidth || box.y1 >= gridHeight || box.x1 < box.x0 || box.y1 < box.y0) {

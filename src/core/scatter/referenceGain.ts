@@ -13,7 +13,7 @@
 import type { Rect } from '../../media/types.js';
 import { median } from '../fit/robustScale.js';
 import { boxSeries } from './boxSeries.js';
-import { rectToCellBox } from './cellGeometry.js';
+import { rectToCellBox } from '../regions/cellGeometry.js';
 
 export function referenceGain(grid: Float32Array, frames: number, gridWidth: number, gridHeight: number, stepPx: number, reference: Rect): Float64Array | null {
   const box = rectToCellBox(reference, stepPx, gridWidth, gridHeight);

@@ -33,7 +33,7 @@
 import { KerrError } from '../../errors.js';
 import type { Rect } from '../../media/types.js';
 import type { ModulationMaps } from './modulationMaps.js';
-import { cellBoxesOverlap, cellBoxToRect, growCellBox, type CellBox } from './cellGeometry.js';
+import { cellBoxesOverlap, cellBoxToRect, floodFill, growCellBox, type CellBox } from '../regions/cellGeometry.js';
 
 export interface RegionsFromMapsOptions {
   stepPx: number;
@@ -124,34 +124,6 @@ function integral(w: number, h: number, value: (c: number) => number): Float64Ar
 function boxSum(t: Float64Array, w: number, b: CellBox): number {
   const W = w + 1;
   return t[(b.y1 + 1) * W + b.x1 + 1]! - t[b.y0 * W + b.x1 + 1]! - t[(b.y1 + 1) * W + b.x0]! + t[b.y0 * W + b.x0]!;
-}
-
-function floodFill(map: Float32Array, w: number, h: number, start: number, limit: number, bounds: CellBox | null): { mask: Uint8Array; box: CellBox; count: number } {
-  const mask = new Uint8Array(w * h);
-  const stack = [start];
-  mask[start] = 1;
-  const box: CellBox = { x0: start % w, y0: Math.floor(start / w), x1: start % w, y1: Math.floor(start / w) };
-  let count = 0;
-  while (stack.length > 0) {
-    const c = stack.pop()!;
-    count++;
-    const x = c % w;
-    const y = (c - x) / w;
-    box.x0 = Math.min(box.x0, x); box.x1 = Math.max(box.x1, x);
-    box.y0 = Math.min(box.y0, y); box.y1 = Math.max(box.y1, y);
-    const next = [x > 0 ? c - 1 : -1, x < w - 1 ? c + 1 : -1, y > 0 ? c - w : -1, y < h - 1 ? c + w : -1];
-    for (const m of next) {
-      if (m < 0 || mask[m] || !(map[m]! >= limit)) continue;
-      if (bounds) {
-        const mx = m % w;
-        const my = (m - mx) / w;
-        if (mx < bounds.x0 || mx > bounds.x1 || my < bounds.y0 || my > bounds.y1) continue;
-      }
-      mask[m] = 1;
-      stack.push(m);
-    }
-  }
-  return { mask, box, count };
 }
 
 export function regionsFromMaps(maps: ModulationMaps, options: RegionsFromMapsOptions): ScatterRegions {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { modulationMaps } from '../../../src/core/scatter/modulationMaps.js';
 import { regionsFromMaps } from '../../../src/core/scatter/regionsFromMaps.js';
-import { cellBoxContains, cellBoxesOverlap } from '../../../src/core/scatter/cellGeometry.js';
+import { cellBoxContains, cellBoxesOverlap } from '../../../src/core/regions/cellGeometry.js';
 import { isKerrError } from '../../../src/errors.js';
 import { makeSyntheticRun, type SyntheticOptions } from './syntheticRun.js';
 

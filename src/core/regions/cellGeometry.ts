@@ -3,15 +3,20 @@
  * block (grid width ⌊W/step⌋, height ⌊H/step⌋, right and bottom remainders left out), and every
  * region found on the maps is a box of blocks that becomes a pixel rectangle for the user.
  *
- * A CellBox holds inclusive block indices (x0..x1, y0..y1), the same shape `findBeam` uses.
+ * A CellBox holds inclusive block indices (x0..x1, y0..y1).
  * Pure; nothing here throws.
  *
  * @example cellBoxToRect({ x0: 2, y0: 1, x1: 3, y1: 1 }, 8) → { x: 16, y: 8, w: 16, h: 8 }
  */
 import type { Rect } from '../../media/types.js';
-import type { CellBox } from '../regions/findBeam.js';
 
-export type { CellBox };
+/** A box of blocks: inclusive block indices. */
+export interface CellBox {
+  x0: number;
+  y0: number;
+  x1: number;
+  y1: number;
+}
 
 /** Pixel rectangle covered by a box of blocks. */
 export function cellBoxToRect(box: CellBox, stepPx: number): Rect {
@@ -60,4 +65,36 @@ export function cellBoxContains(box: CellBox, x: number, y: number): boolean {
 
 export function cellBoxArea(box: CellBox): number {
   return (box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1);
+}
+
+/**
+ * The 4-connected blocks reachable from `start` whose value is at least `limit` (and, when
+ * `bounds` is given, inside it): their mask, bounding box and count. Iterative (no recursion).
+ */
+export function floodFill(map: ArrayLike<number>, w: number, h: number, start: number, limit: number, bounds: CellBox | null = null): { mask: Uint8Array; box: CellBox; count: number } {
+  const mask = new Uint8Array(w * h);
+  const stack = [start];
+  mask[start] = 1;
+  const box: CellBox = { x0: start % w, y0: Math.floor(start / w), x1: start % w, y1: Math.floor(start / w) };
+  let count = 0;
+  while (stack.length > 0) {
+    const c = stack.pop()!;
+    count++;
+    const x = c % w;
+    const y = (c - x) / w;
+    box.x0 = Math.min(box.x0, x); box.x1 = Math.max(box.x1, x);
+    box.y0 = Math.min(box.y0, y); box.y1 = Math.max(box.y1, y);
+    const next = [x > 0 ? c - 1 : -1, x < w - 1 ? c + 1 : -1, y > 0 ? c - w : -1, y < h - 1 ? c + w : -1];
+    for (const m of next) {
+      if (m < 0 || mask[m] || !(map[m]! >= limit)) continue;
+      if (bounds) {
+        const mx = m % w;
+        const my = (m - mx) / w;
+        if (mx < bounds.x0 || mx > bounds.x1 || my < bounds.y0 || my > bounds.y1) continue;
+      }
+      mask[m] = 1;
+      stack.push(m);
+    }
+  }
+  return { mask, box, count };
 }

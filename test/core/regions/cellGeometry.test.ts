@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cellBoxToRect, rectToCellBox, growCellBox, cellBoxesOverlap, cellBoxArea } from '../../../src/core/scatter/cellGeometry.js';
+import { cellBoxToRect, rectToCellBox, growCellBox, cellBoxesOverlap, cellBoxArea } from '../../../src/core/regions/cellGeometry.js';
 import { boxSeries, outsideBoxSeries } from '../../../src/core/scatter/boxSeries.js';
 import { referenceGain } from '../../../src/core/scatter/referenceGain.js';
 
