@@ -359,8 +359,3 @@ export async function probeMedia(path: string, opts: { signal?: AbortSignal } = 
 export async function probeVideo(path: string): Promise<VideoInfo> {
   return (await probeMedia(path)).info;
 }
-
-/** Presentation time of every frame, seconds, from the container's timestamps. */
-export async function readFrameTimes(path: string): Promise<Float64Array> {
-  return (await probeMedia(path)).frameTimesS;
-}

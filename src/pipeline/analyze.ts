@@ -10,7 +10,7 @@
  */
 import { existsSync, statSync } from 'node:fs';
 import { basename, dirname, extname, join, resolve } from 'node:path';
-import { KerrError, invalid } from '../errors.js';
+import { KerrError, invalid, isKerrError } from '../errors.js';
 import { quantity, type Quantity } from '../quantity.js';
 import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/types.js';
 import { probeMedia, type ProbeResult } from '../media/probe.js';
@@ -19,6 +19,7 @@ import { decodingFor } from '../core/camera/decodingFor.js';
 import { createRegionMeter } from '../measure/regionMeter.js';
 import { createGridSampler } from '../measure/gridSampler.js';
 import { validateRect } from '../measure/rect.js';
+import { exposureGains } from '../measure/exposure.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
@@ -396,15 +397,14 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     }
   }
 
-  // ---- exposure gain from a reference region ----
-  const gain = new Float64Array(nFrames).fill(1);
+  // ---- exposure gain from a reference region (minus the dark region when one is given) ----
+  let gain: Float64Array = new Float64Array(nFrames).fill(1);
   if (o.referenceRoi) {
-    const ref = pass.regions[idx.reference!]!.luma;
-    const refMedian = median(ref);
-    if (!(refMedian > 1e-4)) {
-      warn('reference-dark', 'the reference region is nearly black, so exposure could not be corrected from it', 'lock-exposure');
-    } else {
-      for (let f = 0; f < nFrames; f++) gain[f] = ref[f]! / refMedian;
+    try {
+      gain = exposureGains(pass.regions[idx.reference!]!.luma, o.darkRoi ? pass.regions[idx.dark!]!.luma : undefined).gains;
+    } catch (err) {
+      if (!isKerrError(err)) throw err;
+      warn('reference-dark', 'the reference region is never brighter than the dark level, so exposure could not be corrected from it; put it on a lit grey card', 'lock-exposure');
     }
   }
 
@@ -413,7 +413,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const excluded: (string | null)[] = new Array(nFrames).fill(null);
   for (let f = 0; f < nFrames; f++) {
     intensity[f] = (beamRaw[f]! - (haveSurround ? surroundRaw[f]! : 0)) / gain[f]!;
-    if (flashes.flags[f]) excluded[f] = 'spark';
+    if (!Number.isFinite(gain[f]!)) excluded[f] = 'no-reference';
+    else if (flashes.flags[f]) excluded[f] = 'spark';
     else if (beamClipped[f]! > 0.01) excluded[f] = 'clipped';
   }
   const clippedFrames = excluded.filter((e) => e === 'clipped').length;
