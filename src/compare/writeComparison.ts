@@ -7,14 +7,11 @@
  * into place. Returns {files: {key: path relative to dir}}.
  * @example await writeComparison('cmp', compareRuns([a, b], ['before', 'after']), { force: false })
  */
-import { existsSync } from 'node:fs';
-import { join } from 'node:path';
-import { KerrError } from '../errors.js';
+import { stageOutputDir } from '../io/outputDir.js';
 import { figure } from '../report/figureCatalogue.js';
 import { guideLink } from '../report/guideLink.js';
 import { packageInfo } from '../report/packageInfo.js';
 import { renderPlot, svgToPng } from '../report/renderPlot.js';
-import { writeFileAtomic } from '../report/writeFileAtomic.js';
 import { comparisonFigureSpec } from '../report/plots/comparisonFigureSpec.js';
 import { comparisonCsv } from './comparisonCsv.js';
 import { comparisonHtml, type ComparisonPlot } from './comparisonHtml.js';
@@ -43,28 +40,26 @@ export async function writeComparison(dir: string, comparison: Comparison, opts:
     planned[`${f.key}Svg`] = `plots/compare-${f.key}.svg`;
     planned[`${f.key}Png`] = `plots/compare-${f.key}.png`;
   }
-  if (!opts.force) {
-    const existing = Object.values(planned).filter((rel) => existsSync(join(dir, rel)));
-    if (existing.length > 0) {
-      throw new KerrError('FILE_EXISTS', `${join(dir, existing[0]!)} already exists and would be overwritten`, {
-        path: '--out',
-        hint: 'Choose another folder with --out, or add --force to replace the earlier comparison',
-      });
+  // The folder is written whole or not at all (staged beside the target, then renamed).
+  const staged = stageOutputDir(dir, opts.force === true);
+  try {
+    const plots: ComparisonPlot[] = [];
+    for (const f of plotted) {
+      const { spec } = comparisonFigureSpec(plotInput(f, comparison));
+      const { svg } = await renderPlot(spec, `cmp-${f.key}`);
+      staged.write(planned[`${f.key}Svg`]!, svg);
+      staged.write(planned[`${f.key}Png`]!, await svgToPng(svg));
+      plots.push({ key: f.key, title: f.name, svg, files: { png: planned[`${f.key}Png`]!, svg: planned[`${f.key}Svg`]! } });
     }
+    staged.write(planned.json!, `${JSON.stringify({ ...comparison, createdAt, tool: { name: 'kerrtrace', version: toolVersion, node: process.version } }, finiteOrNull, 2)}\n`);
+    staged.write(planned.csv!, comparisonCsv(comparison));
+    staged.write(planned.summary!, comparisonMarkdown(comparison, createdAt));
+    staged.write(planned.html!, comparisonHtml({ comparison, plots, hrefFor: (a) => guideLink(dir, a), createdAt, toolVersion }));
+    staged.commit();
+  } catch (err) {
+    staged.abandon();
+    throw err;
   }
-
-  const plots: ComparisonPlot[] = [];
-  for (const f of plotted) {
-    const { spec } = comparisonFigureSpec(plotInput(f, comparison));
-    const { svg } = await renderPlot(spec, `cmp-${f.key}`);
-    await writeFileAtomic(join(dir, planned[`${f.key}Svg`]!), svg);
-    await writeFileAtomic(join(dir, planned[`${f.key}Png`]!), await svgToPng(svg));
-    plots.push({ key: f.key, title: f.name, svg, files: { png: planned[`${f.key}Png`]!, svg: planned[`${f.key}Svg`]! } });
-  }
-  await writeFileAtomic(join(dir, planned.json!), `${JSON.stringify({ ...comparison, createdAt, tool: { name: 'kerrtrace', version: toolVersion, node: process.version } }, finiteOrNull, 2)}\n`);
-  await writeFileAtomic(join(dir, planned.csv!), comparisonCsv(comparison));
-  await writeFileAtomic(join(dir, planned.summary!), comparisonMarkdown(comparison, createdAt));
-  await writeFileAtomic(join(dir, planned.html!), comparisonHtml({ comparison, plots, hrefFor: (a) => guideLink(dir, a), createdAt, toolVersion }));
   return { files: planned };
 }
 

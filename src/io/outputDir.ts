@@ -1,10 +1,12 @@
 /**
  * Output folders are written whole or not at all: files go into a hidden staging folder beside
  * the target, which is renamed into place at the end. An existing result is never replaced
- * unless `force` is set, and an output can never be one of the inputs.
+ * unless `force` is set, and `force` only ever replaces a folder that kerrtrace itself wrote
+ * (it carries the marker file below) and that holds none of the inputs: `--out . --force` can
+ * never delete the user's footage or notes. An output can never be one of the inputs.
  */
-import { existsSync, mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, relative, resolve, isAbsolute } from 'node:path';
 import { KerrError } from '../errors.js';
 
 export interface StagedDir {
@@ -17,18 +19,33 @@ export interface StagedDir {
   abandon(): void;
 }
 
-/** Refuses early (before expensive work) when the target exists and `force` is not set. */
+/** Marker file in every output folder kerrtrace writes; only such folders are replaced by --force. */
+export const OUTPUT_MARKER = '.kerrtrace-output';
+
+function inside(child: string, parent: string): boolean {
+  const rel = relative(parent, child);
+  return rel === '' || (!rel.startsWith('..') && !isAbsolute(rel));
+}
+
+/** Refuses early (before expensive work) when the target exists and may not be replaced. */
 export function checkOutputDir(target: string, force: boolean, inputs: string[], option = '--out'): void {
   const abs = resolve(target);
   for (const i of inputs) {
-    if (resolve(i) === abs) {
-      throw new KerrError('FILE_EXISTS', `the output ${target} is one of the inputs`, { path: option, hint: 'Choose another folder with --out' });
+    if (inside(resolve(i), abs)) {
+      throw new KerrError('FILE_EXISTS', `the output ${target} is or holds one of the inputs (${i})`, { path: option, hint: 'Choose another folder with --out' });
     }
   }
-  if (existsSync(abs) && !force) {
+  if (!existsSync(abs)) return;
+  if (!force) {
     throw new KerrError('FILE_EXISTS', `${target} already exists and would be overwritten`, {
       path: option,
       hint: 'Choose another folder with --out, or add --force to replace it',
+    });
+  }
+  if (!statSync(abs).isDirectory() || !existsSync(join(abs, OUTPUT_MARKER))) {
+    throw new KerrError('FILE_EXISTS', `${target} exists and is not a folder kerrtrace wrote, so --force will not replace it`, {
+      path: option,
+      hint: 'Choose a new folder with --out',
     });
   }
 }
@@ -39,6 +56,7 @@ export function stageOutputDir(target: string, force: boolean): StagedDir {
   mkdirSync(dirname(abs), { recursive: true });
   const staging = join(dirname(abs), `.${basename(abs)}.partial-${process.pid}-${Date.now()}`);
   mkdirSync(staging, { recursive: true });
+  writeFileSync(join(staging, OUTPUT_MARKER), 'Written by kerrtrace; `--force` may replace this folder as a whole.\n');
   let done = false;
   return {
     path: staging,
@@ -51,9 +69,11 @@ export function stageOutputDir(target: string, force: boolean): StagedDir {
     commit() {
       if (done) return;
       if (existsSync(abs)) {
-        if (!force) {
+        try {
+          checkOutputDir(abs, force, []);
+        } catch (err) {
           rmSync(staging, { recursive: true, force: true });
-          throw new KerrError('FILE_EXISTS', `${target} appeared while the run was working`, { hint: 'Run again with another --out or --force' });
+          throw err;
         }
         rmSync(abs, { recursive: true, force: true });
       }
