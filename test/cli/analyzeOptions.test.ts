@@ -21,7 +21,6 @@ const TRUTH = JSON.parse(readFileSync(join(CASE, 'truth.json'), 'utf8')) as {
   channels: Record<'r' | 'g' | 'b', { weight: number; kerrConstantMPerV2: number }>;
 };
 const GEOMETRY = ['--length-mm', '50', '--gap-mm', '5'];
-const FAST = ['--quiet', '--no-report', '--no-maps'];
 
 let work: string;
 const runs: Record<string, { dir: string; cli: CliRun }> = {};
