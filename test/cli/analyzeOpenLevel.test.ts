@@ -36,7 +36,10 @@ function ok(name: string) {
   return { result: readResultJson(r.dir), dir: r.dir };
 }
 
-const low = ['--volts', join(LOW, 'run', 'volts.csv'), '--length-mm', '40', '--gap-mm', '4'];
+// The beam region of truth.json for all three, so that the open clip is measured on the same
+// pixels whichever way it comes in.
+const LOW_ROI = (JSON.parse(readFileSync(join(LOW, 'run', 'truth.json'), 'utf8')) as { roi: number[] }).roi.join(',');
+const low = ['--volts', join(LOW, 'run', 'volts.csv'), '--length-mm', '40', '--gap-mm', '4', '--roi', LOW_ROI];
 const phone = [join(PHONE, 'clip.mp4'), '--volts', join(PHONE, 'volts.csv'), '--length-mm', '30', '--gap-mm', '3'];
 // the open clip follows the run clip: its frames are the seconds [run duration, run + open duration]
 const OPEN_WINDOW: [number, number] = [LOW_TRUTH.durationS, LOW_TRUTH.durationS + OPEN_TRUTH.durationS];
@@ -72,6 +75,7 @@ describe('analyze: the open level', () => {
     expect(result.model.amplitude.value).toBeGreaterThan(0);
     expect(result.model.amplitude.stdErr).toBeUndefined(); // fixed, not fitted
     expect(result.identifiability.ampVpiCorrelation).toBe(0);
+    expect(result.regions.beam).toEqual({ x: 100, y: 70, w: 41, h: 41 });
     expect(result.inputs.openVideo.sha256).toBe(createHash('sha256').update(readFileSync(join(LOW, 'open', 'clip.mp4'))).digest('hex'));
   });
 
@@ -107,6 +111,15 @@ describe('analyze: the open level', () => {
     const B = result.kerrConstant;
     const sigma = Math.hypot(B.stdErr, (B.value * sigmaAmpRel) / 2);
     expect(Math.abs(B.value - LOW_TRUTH.kerrConstantMPerV2)).toBeLessThanOrEqual(3 * sigma);
+  });
+});
+
+describe('analyze: the open level two ways', () => {
+  it('--open-video and --open-window over the same frames appended to the run give the same amplitude and the same B', () => {
+    const byVideo = ok('openVideo').result;
+    const byWindow = ok('openWindow').result;
+    expect(byWindow.model.amplitude.value / byVideo.model.amplitude.value).toBeCloseTo(1, 9);
+    expect(byWindow.kerrConstant.value / byVideo.kerrConstant.value).toBeCloseTo(1, 9);
   });
 });
 
