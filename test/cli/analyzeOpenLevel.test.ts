@@ -4,7 +4,9 @@
  * low sweep (test-media/low-sweep: the drive reaches 0.45·V_π, B = 2.0e-12 m/V², L = 40 mm,
  * d = 4 mm; open/ renders the same bench with the analyser parallel and no field), and the exposure
  * reference (--reference-roi) on the auto-exposing phone clip (test-media/vfr-phone, truth
- * referenceRoi 14,132,36,32). Needs dist/ (`npx tsc -p tsconfig.json`; `npm test` builds it).
+ * referenceRoi 14,132,36,32). The truth is the project's own simulator's (docs/scenario.md): the truth
+ * checks are end-to-end self-consistency of simulate → analyze; the median is recomputed here with
+ * simple-statistics. Needs dist/ (`npx tsc -p tsconfig.json`; `npm test` builds it).
  */
 import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';

@@ -3,7 +3,9 @@
  * (test-media/cfr-ramp: 240×180, 30 fps, sRGB, B = 2.4e-12 m/V², L = 50 mm, d = 5 mm, polariser at
  * 45°, no static retardance; truth in run/truth.json). Each option is checked for WHAT it changes,
  * against the clip's truth or against a closed-form relation; the runs are shared (beforeAll) and go
- * two at a time. Needs dist/ (`npx tsc -p tsconfig.json`; `npm test` builds it).
+ * two at a time. The truth is the project's own simulator's (docs/scenario.md), so the truth checks
+ * are end-to-end self-consistency of simulate → analyze; the closed-form relations (L/L_eff, the
+ * Jones factor, normal equations, hashes) stand on their own. Needs dist/ (`npx tsc -p tsconfig.json`; `npm test` builds it).
  */
 import { createHash } from 'node:crypto';
 import { copyFileSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';

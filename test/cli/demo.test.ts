@@ -3,7 +3,9 @@
  * promises is there, each run's headline figures agree with the demo scenario's truth (the
  * simulator's truth.json written beside each recording), and the run reports carry the scatter
  * section (halo, particle rate, flicker, up/down sweeps, resistivity, the two maps), each figure
- * labelled and showing the number result.json holds. Needs dist/ (`npx tsc -p tsconfig.json`).
+ * labelled and showing the number result.json holds. The truth is the project's own simulator's, so
+ * the truth checks are end-to-end self-consistency (simulate → analyze → report); the allowances
+ * come from docs/scenario.md and docs/scatter.md as stated beside each. Needs dist/ (`npx tsc -p tsconfig.json`).
  */
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';

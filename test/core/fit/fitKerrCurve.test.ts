@@ -1,3 +1,9 @@
+/**
+ * The central Kerr-curve fit on synthetic sweeps made here (seeded noise, invented cell numbers):
+ * the data come from an explicit Jones product written in this file, not from the code's model;
+ * σ coverage, effective-variance weighting (Orear 1982) and the AR(1) error inflation (Bence 1995)
+ * are checked against their formulas. Synthetic truth: self-consistency, with the optics independent.
+ */
 import { describe, expect, it } from 'vitest';
 import { fitKerrCurve, type KerrCurveInput } from '../../../src/core/fit/fitKerrCurve.js';
 import { seededNormal, seededRandom } from '../../helpers/random.js';
