@@ -118,6 +118,27 @@ describe('the comparison plots, read back from the SVG', () => {
   }
 });
 
+describe('the comparison summary.md table', () => {
+  it('shows each run\'s B and floor fraction as its sample mean ± standard error (to the shown digits), and the withheld run as not separable', () => {
+    const md = readFileSync(join(dir, 'out', 'summary.md'), 'utf8');
+    expect(md).toContain(`| figure | ${LABELS.join(' | ')} |`);
+    for (const [name, s, unitScale] of [['Kerr constant B', bSamples, 1e12], ['Floor fraction', fSamples, 100]] as const) {
+      const row = md.split('\n').find((l) => l.startsWith(`| ${name} |`))!;
+      const cells = row.split('|').slice(2, -1).map((c) => c.trim());
+      expect(cells).toHaveLength(3);
+      expect(cells[2]).toBe('not separable');
+      for (const [i, k] of (['a', 'b'] as const).entries()) {
+        const m = /^(-?[\d.]+) ± ([\d.]+)/.exec(cells[i]!)!;
+        const decimals = m[1]!.split('.')[1]?.length ?? 0;
+        const half = 0.5 * 10 ** -decimals * 1.0001;
+        const q = meanQuantity(s[k]);
+        expect(Math.abs(Number(m[1]) - q.value * unitScale), `${name} ${cells[i]}`).toBeLessThanOrEqual(half);
+        expect(Math.abs(Number(m[2]) - q.stdErr * unitScale)).toBeLessThanOrEqual(half);
+      }
+    }
+  });
+});
+
 describe('comparisonFigureSpec', () => {
   it('bars are value ∓ σ, runs keep the given order and a run without a value keeps its place on the axis', () => {
     const made = comparisonFigureSpec({
