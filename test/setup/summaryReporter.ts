@@ -1,0 +1,58 @@
+/**
+ * A Vitest reporter that ends the run with the outside sources it checked: for every source of
+ * test/setup/outsideSources.ts, how many tests carrying its tag passed, failed or were skipped in
+ * this run (read from the test results, so a source whose tests did not run is reported as not
+ * run, never as checked). It also prints the browser opt-out when KERRTRACE_SKIP_BROWSER=1 was used.
+ * Wired in vitest.config.ts after the default reporter.
+ */
+import type { Reporter, TestModule } from 'vitest/node';
+import { OUTSIDE, OUTSIDE_SOURCES } from './outsideSources.js';
+
+interface Tally {
+  passed: number;
+  failed: number;
+  skipped: number;
+}
+
+/** Tallies per tag over every test of the run. */
+export function tallyByTag(modules: ReadonlyArray<TestModule>): Map<string, Tally> {
+  const tallies = new Map<string, Tally>();
+  for (const module of modules) {
+    for (const test of module.children.allTests()) {
+      const state = test.result().state;
+      for (const tag of test.tags) {
+        const t = tallies.get(tag) ?? { passed: 0, failed: 0, skipped: 0 };
+        if (state === 'passed') t.passed++;
+        else if (state === 'failed') t.failed++;
+        else if (state === 'skipped') t.skipped++;
+        tallies.set(tag, t);
+      }
+    }
+  }
+  return tallies;
+}
+
+/** The summary lines for a run's tallies (pure, so it can be tested). */
+export function summaryLines(tallies: Map<string, Tally>, env: NodeJS.ProcessEnv = process.env): string[] {
+  const lines = ['', ' Outside sources in this run (docs/references.md):'];
+  for (const source of OUTSIDE_SOURCES) {
+    const t = tallies.get(source.name);
+    const counts = t ? [`${t.passed} passed`, t.failed ? `${t.failed} failed` : '', t.skipped ? `${t.skipped} skipped` : ''].filter(Boolean).join(', ') : '';
+    let mark: string;
+    if (!t || t.passed + t.failed === 0) mark = 'not run';
+    else if (t.failed > 0) mark = 'FAILED';
+    else mark = 'checked';
+    lines.push(`   ${mark.padEnd(8)} ${source.description}${counts ? ` (${counts})` : ''}`);
+  }
+  const browser = tallies.get(OUTSIDE.browser);
+  if (env['KERRTRACE_SKIP_BROWSER'] === '1') {
+    lines.push(` Browser tests skipped on request (KERRTRACE_SKIP_BROWSER=1)${browser?.skipped ? `: ${browser.skipped} tests` : ''}; unset it to run them.`);
+  }
+  return lines;
+}
+
+export default class OutsideSourcesReporter implements Reporter {
+  onTestRunEnd(testModules: ReadonlyArray<TestModule>): void {
+    process.stdout.write(`${summaryLines(tallyByTag(testModules)).join('\n')}\n`);
+  }
+}
