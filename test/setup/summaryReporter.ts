@@ -5,7 +5,7 @@
  * run, never as checked). It also prints the browser opt-out when KERRTRACE_SKIP_BROWSER=1 was used.
  * Wired in vitest.config.ts after the default reporter.
  */
-import type { Reporter, TestModule } from 'vitest/node';
+import type { Reporter, TestCase, TestModule } from 'vitest/node';
 import { OUTSIDE, OUTSIDE_SOURCES } from './outsideSources.js';
 
 interface Tally {
@@ -14,12 +14,21 @@ interface Tally {
   skipped: number;
 }
 
+function suiteFailed(suite: TestCase['parent']): boolean {
+  for (let s: TestCase['parent'] | undefined = suite; s; s = s.type === 'suite' ? s.parent : undefined) {
+    if (s.state() === 'failed') return true;
+  }
+  return false;
+}
+
 /** Tallies per tag over every test of the run. */
 export function tallyByTag(modules: ReadonlyArray<TestModule>): Map<string, Tally> {
   const tallies = new Map<string, Tally>();
   for (const module of modules) {
     for (const test of module.children.allTests()) {
-      const state = test.result().state;
+      let state: string = test.result().state;
+      // A test skipped because its suite's setup failed (no browser, say) did not pass: count it failed.
+      if (state === 'skipped' && suiteFailed(test.parent)) state = 'failed';
       for (const tag of test.tags) {
         const t = tallies.get(tag) ?? { passed: 0, failed: 0, skipped: 0 };
         if (state === 'passed') t.passed++;
