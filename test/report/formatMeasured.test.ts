@@ -29,7 +29,7 @@ describe('formatFigure', () => {
   });
 
   it('keeps the Kerr constant in SI m/V² with its power of ten', () => {
-    // 2.4e-12 m/V² is the nitrobenzene value in shared/reference/README.md (Lux notes, 2.4e-10 cm/V²).
+    // 2.4e-12 m/V² is the nitrobenzene value in docs/references.md (Lux notes, 2.4e-10 cm/V²).
     expect(formatFigure(figure('kerrConstant'), { value: 2.4e-12, stdErr: 2.9e-14 })).toBe('2.400 ± 0.029 × 10⁻¹² m/V²');
   });
 });

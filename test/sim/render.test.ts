@@ -40,7 +40,7 @@ function centreRadiance(scene: ReturnType<typeof bench>): [number, number, numbe
   return [work[j]!, work[j + 1]!, work[j + 2]!];
 }
 
-describe('renderer beam centre against the Jones transmission (any optics text; shared/reference/README.md)', () => {
+describe('renderer beam centre against the Jones transmission (any optics text; docs/references.md)', () => {
   const cell = { kerrConstantMPerV2: 2.4e-12, lengthMm: 50, gapMm: 5 };
   const halfWaveV = 0.005 / Math.sqrt(2 * 2.4e-12 * 0.05); // d/√(2BL) ≈ 10206 V
 

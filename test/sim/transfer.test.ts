@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { bt709Decode, bt709Encode, makeCodeEncoder, srgbDecode, srgbEncode, transferEncode } from '../../src/sim/transfer.js';
 
-describe('sRGB transfer (IEC 61966-2-1:1999, values as quoted in shared/reference/README.md)', () => {
+describe('sRGB transfer (IEC 61966-2-1:1999, values as quoted in docs/references.md)', () => {
   it('encodes linear 0.214041 to 0.5 and decodes 0.5 back to 0.214041', () => {
     expect(srgbEncode(0.214041)).toBeCloseTo(0.5, 6);
     expect(srgbDecode(0.5)).toBeCloseTo(0.214041, 6);

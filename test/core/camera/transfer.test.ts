@@ -3,7 +3,7 @@ import { bt709ToLinear, parseTransfer, srgbToLinear, toLinear, transferLut } fro
 import { KerrError } from '../../../src/errors.js';
 
 describe('sRGB decoding (IEC 61966-2-1:1999)', () => {
-  it('maps V = 0.5 to 0.214041 (IEC 61966-2-1, value listed in shared/reference/README.md)', () => {
+  it('maps V = 0.5 to 0.214041 (IEC 61966-2-1, value listed in docs/references.md)', () => {
     expect(srgbToLinear(0.5)).toBeCloseTo(0.214041, 6);
   });
 
