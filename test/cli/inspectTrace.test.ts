@@ -9,6 +9,7 @@ import { join, resolve } from 'node:path';
 import { ffprobeDecodedFrameCount, ffprobeStreams, makeClip, tempDir } from '../helpers/makeClip.js';
 import { parseRate } from '../../src/media/probe.js';
 import { cliEnv } from '../helpers/cliEnv.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 const BIN = resolve(__dirname, '../../bin/kerrtrace.js');
 
@@ -39,7 +40,7 @@ describe('kerrtrace inspect', () => {
     { name: 'c.mp4', spec: { width: 176, height: 144, fps: 50, durationS: 0.6, rotate: 90 } },
     { name: 'd.mp4', spec: { width: 160, height: 120, fps: 30, durationS: 1.5, vfr: true as const } },
   ];
-  it.each(clips)('--json agrees with ffprobe for $name', async ({ name, spec }) => {
+  it.each(clips)('--json agrees with ffprobe for $name', { tags: [OUTSIDE.ffprobe] }, async ({ name, spec }) => {
     const clip = await makeClip(tmp.dir, name, spec);
     const r = cli(['inspect', clip, '--json']);
     expect(r.status).toBe(0);

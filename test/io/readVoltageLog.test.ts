@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { KerrError } from '../../src/errors.js';
 import { readVoltageLog } from '../../src/io/readVoltageLog.js';
 import { BENCH_CLIP_NAMES, benchClip } from '../helpers/referenceData.js';
+import { benchClipTag } from '../setup/outsideSources.js';
 
 const scratch = mkdtempSync(join(tmpdir(), 'kerrtrace-log-'));
 afterAll(() => rmSync(scratch, { recursive: true, force: true }));
@@ -23,7 +24,7 @@ async function failure(path: string): Promise<KerrError> {
 // (test/reference/README.md, bench-clips: "the log's format").
 describe('readVoltageLog on the bench clips (bench-clips README, truth.json voltageLog)', () => {
   for (const clip of BENCH_CLIP_NAMES) {
-    it(`${clip}: rows, span, delimiter, decimal comma and peak voltage match truth.json`, async () => {
+    it(`${clip}: rows, span, delimiter, decimal comma and peak voltage match truth.json`, { tags: [benchClipTag(clip)] }, async () => {
       const files = benchClip(clip);
       const truth = JSON.parse(readFileSync(files.truth, 'utf8')) as {
         maxVoltage_V: number;

@@ -5,6 +5,7 @@ import { isVariableFrameRate, parseRate, probeMedia, probeVideo } from '../../sr
 import { KerrError } from '../../src/errors.js';
 import { ffmpeg, ffprobeDecodedFrameCount, ffprobeStreams, makeClip, tempDir } from '../helpers/makeClip.js';
 import { benchClip } from '../helpers/referenceData.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 
 async function probeError(path: string): Promise<KerrError> {
@@ -17,7 +18,7 @@ async function probeError(path: string): Promise<KerrError> {
   throw new Error(`expected ${path} to be refused`);
 }
 
-describe('probeVideo against ffprobe', () => {
+describe('probeVideo against ffprobe', { tags: [OUTSIDE.ffprobe] }, () => {
   let tmp: Awaited<ReturnType<typeof tempDir>>;
   beforeAll(async () => { tmp = await tempDir('probe'); });
   afterAll(async () => { await tmp.cleanup(); });
@@ -81,7 +82,7 @@ describe('probeVideo against ffprobe', () => {
     expect(info.frameCount).toBe(await ffprobeDecodedFrameCount(mkv));
   });
 
-  it('reads the variable-frame-rate bench clip as VFR with its 1/60 s tick and longest interval (bench-clips truth.json: maxFrameInterval_s)', async () => {
+  it('reads the variable-frame-rate bench clip as VFR with its 1/60 s tick and longest interval (bench-clips truth.json: maxFrameInterval_s)', { tags: [OUTSIDE.vfr] }, async () => {
     const truth = JSON.parse(readFileSync(benchClip('vfr_past_halfwave').truth, 'utf8')) as { maxFrameInterval_s: number };
     const p = await probeMedia(benchClip('vfr_past_halfwave').clip);
     expect(p.info.variableFrameRate).toBe(true);

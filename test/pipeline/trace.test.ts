@@ -6,6 +6,7 @@ import { median } from '../../src/measure/exposure.js';
 import { KerrError } from '../../src/errors.js';
 import { makeClip, tempDir } from '../helpers/makeClip.js';
 import { benchClip } from '../helpers/referenceData.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 
 interface CardTruth {
@@ -19,7 +20,7 @@ describe('traceVideo', () => {
   beforeAll(async () => { tmp = await tempDir('trace'); });
   afterAll(async () => { await tmp.cleanup(); });
 
-  it('recovers the drifting exposure of the reference-card bench clip from its grey card (bench-clips truth.json exposureGain, within 1.5 %)', async () => {
+  it('recovers the drifting exposure of the reference-card bench clip from its grey card (bench-clips truth.json exposureGain, within 1.5 %)', { tags: [OUTSIDE.whiteSteps] }, async () => {
     const truth = JSON.parse(readFileSync(benchClip('white_steps_reference_card').truth, 'utf8')) as CardTruth;
     const [rx, ry, rw, rh] = truth.referenceRoi;
     const [bx, by, bw, bh] = truth.roi;

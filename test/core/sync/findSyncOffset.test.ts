@@ -5,6 +5,7 @@ import { KerrError } from '../../../src/errors.js';
 import { readVoltageLog } from '../../../src/io/readVoltageLog.js';
 import { interpolateAt } from '../../../src/core/signal/interpolate.js';
 import { BENCH_CLIP_NAMES, benchClip } from '../../helpers/referenceData.js';
+import { benchClipTag } from '../../setup/outsideSources.js';
 
 /** Small deterministic PRNG (mulberry32) and a Gaussian from it (Box–Muller). */
 function rng(seed: number): { uniform: () => number; gauss: () => number } {
@@ -389,7 +390,7 @@ describe('findSyncOffset on the bench clips\' voltage logs (bench-clips README a
   const vpiTolerance: Record<string, number> = { green_ramps: 0.02, white_steps_reference_card: 0.1, vfr_past_halfwave: 0.02 };
 
   for (const clip of BENCH_CLIP_NAMES) {
-    it(`${clip}: offset within one frame of truth.json's offset_s`, async () => {
+    it(`${clip}: offset within one frame of truth.json's offset_s`, { tags: [benchClipTag(clip)] }, async () => {
       const files = benchClip(clip);
       const truth = JSON.parse(readFileSync(files.truth, 'utf8')) as {
         B: number;
