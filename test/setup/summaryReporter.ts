@@ -60,8 +60,18 @@ export function summaryLines(tallies: Map<string, Tally>, env: NodeJS.ProcessEnv
   return lines;
 }
 
+/** Test files that could not be collected (a missing outside file, say): their tests never ran. */
+export function unloadedLines(modules: ReadonlyArray<TestModule>): string[] {
+  const lines: string[] = [];
+  for (const module of modules) {
+    const first = module.errors()[0];
+    if (first) lines.push(` Could not run ${module.relativeModuleId}: ${(first.message ?? String(first)).split('\n')[0]}`);
+  }
+  return lines;
+}
+
 export default class OutsideSourcesReporter implements Reporter {
   onTestRunEnd(testModules: ReadonlyArray<TestModule>): void {
-    process.stdout.write(`${summaryLines(tallyByTag(testModules)).join('\n')}\n`);
+    process.stdout.write(`${[...summaryLines(tallyByTag(testModules)), ...unloadedLines(testModules)].join('\n')}\n`);
   }
 }
