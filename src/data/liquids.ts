@@ -4,7 +4,7 @@
  * temperature it applies to (null where the source does not say), its source, and
  * `fromMemory: true` where the value is quoted from general tables without a document at hand.
  *
- * Values and sources exactly as listed in shared/reference/README.md:
+ * Values and sources exactly as listed in docs/references.md:
  * - nitrobenzene: B = 2.4e-12 m/V² (2.4e-10 cm/V²), about 589 nm, room temperature,
  *   J. Lux "Electro-optical theory" web notes; relative permittivity about 35 at 20 °C
  *   (handbook tables, from memory).

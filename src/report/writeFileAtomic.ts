@@ -4,7 +4,7 @@
  * over the target. On failure the temporary file is removed and the error re-thrown.
  * Creates missing parent folders. Overwrites an existing target: callers decide beforehand
  * whether that is allowed (see `assertNoClobber`).
- * @example await writeFileAtomic('/tmp/out/report.html', '<!doctype html>…')
+ * @example await writeFileAtomic('run/report.html', '<!doctype html>…')
  */
 import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';

@@ -3,7 +3,7 @@
  * 8-bit code values, as a camera's image pipeline does before compression.
  *
  * - sRGB encode (IEC 61966-2-1:1999): V = 12.92·L for L ≤ 0.0031308, else 1.055·L^(1/2.4) − 0.055.
- *   Check value: L = 0.214041 encodes to V = 0.5 (shared/reference/README.md).
+ *   Check value: L = 0.214041 encodes to V = 0.5 (docs/references.md).
  * - BT.709 OETF (ITU-R BT.709-6): V = 4.5·L for L < 0.018, else 1.099·L^0.45 − 0.099.
  * - linear: V = L (used by tests to read transmission straight off the code values).
  *

@@ -1,21 +1,27 @@
 /**
- * The analyze command through the real command line (dist/, built by `npm test` before Vitest):
- * the happy path writes result.json and trace.csv; bad input gives one line, a non-zero exit,
- * no stack trace and nothing written.
+ * The analyze command through the real command line (dist/, built by `npm test` before Vitest),
+ * on the outside bench clip green_ramps (test/reference/bench-clips, provenance in
+ * test/reference/README.md): every headline figure in result.json and on the screen is checked
+ * against the clip's truth.json with the bounds of test/helpers/benchTruth.ts (the renderer's
+ * stated accuracy and what follows from it). Bad input gives one line, a non-zero exit, no stack
+ * trace and nothing written; --force replaces the folder it wrote and nothing else.
  */
 import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { benchClip } from '../helpers/referenceData.js';
+import { expectHeadlineMatchesTruth, readBenchTruth } from '../helpers/benchTruth.js';
+import { cliEnv } from '../helpers/cliEnv.js';
+import { benchClipTag } from '../setup/outsideSources.js';
 
 const ROOT = join(__dirname, '..', '..');
 const BIN = join(ROOT, 'bin', 'kerrtrace.js');
-const CLIP_DIR = join(ROOT, '..', 'shared', 'reference', 'bench-clips', 'green_ramps');
-const have = existsSync(CLIP_DIR) && existsSync(join(ROOT, 'dist', 'cli', 'main.js'));
 
 function kerrtrace(args: string[]) {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 120_000 });
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 240_000, env: cliEnv() });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -27,39 +33,84 @@ function expectOneLineError(r: { code: number | null; stderr: string }, pattern:
   expect(r.stderr).not.toMatch(/\n\s+at /);
 }
 
-describe.skipIf(!have)('kerrtrace analyze (command line)', () => {
+/** The value and standard error printed on a summary row (`name   value ± stdErr unit`). */
+function printed(stdout: string, row: string): { value: number; stdErr: number } {
+  const line = stdout.split('\n').map((l) => l.trimStart()).find((l) => l.startsWith(row));
+  expect(line, `summary row "${row}"`).toBeDefined();
+  const m = line!.slice(row.length).match(/^\s+([-+\d.e]+) ± ([\d.e+-]+)/);
+  expect(m, `"${line}" shows value ± standard error`).not.toBeNull();
+  return { value: Number(m![1]), stdErr: Number(m![2]) };
+}
+
+const sha256 = (path: string): string => createHash('sha256').update(readFileSync(path)).digest('hex');
+
+describe('kerrtrace analyze (command line)', { tags: [benchClipTag('green_ramps')] }, () => {
   let work: string;
-  const clip = join(CLIP_DIR, 'clip.mp4');
-  const volts = join(CLIP_DIR, 'volts.csv');
-  const geometry = ['--length-mm', '45', '--gap-mm', '4.5'];
+  const { clip, volts } = benchClip('green_ramps');
+  const truth = readBenchTruth('green_ramps');
+  const geometry = ['--length-mm', String(truth.L_mm), '--gap-mm', String(truth.d_mm)];
+  const roi = truth.roi.join(',');
   beforeAll(() => {
     work = mkdtempSync(join(tmpdir(), 'kt-analyze-'));
   });
 
-  it('writes result.json with the required fields and trace.csv, and refuses to overwrite without --force', () => {
+  it('writes result.json whose every headline figure matches truth.json, prints the same figures, writes trace.csv, and refuses to overwrite without --force', () => {
     const out = join(work, 'run1');
-    const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', '213,147,56,58', '--out', out, '--quiet', '--no-report']);
+    const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
-    expect(r.stdout).toMatch(/Kerr constant B\s+1\.8\de-12 ± [\d.e-]+ m\/V\^2/);
     const result = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
-    for (const k of ['kerrConstant', 'halfWaveVoltage', 'syncOffset', 'floorFraction', 'contrastRatio']) expect(result[k].value).toEqual(expect.any(Number));
+    expect(result.identifiable).toBe(true);
+    expectHeadlineMatchesTruth(result, truth);
+    // The screen shows the same figures to three significant digits (cli/summaryText.ts) and the
+    // standard error to two: each printed number lies within half a unit of its last digit.
+    const rows = [['Kerr constant B', 'kerrConstant'], ['half-wave voltage', 'halfWaveVoltage'], ['floor fraction', 'floorFraction'], ['contrast ratio', 'contrastRatio'], ['sync offset', 'syncOffset']] as const;
+    const halfUnit = (x: number, digits: number): number => 0.5 * 10 ** (Math.floor(Math.log10(Math.abs(x))) - digits + 1);
+    for (const [row, key] of rows) {
+      const shown = printed(r.stdout, row);
+      expect(Math.abs(shown.value - result[key].value), row).toBeLessThanOrEqual(halfUnit(result[key].value, 3) * (1 + 1e-9));
+      expect(Math.abs(shown.stdErr - result[key].stdErr), `${row}: standard error`).toBeLessThanOrEqual(halfUnit(result[key].stdErr, 2) * (1 + 1e-9));
+    }
     expect(result.kerrConstant.unit).toBe('m/V^2');
     expect(result.halfWaveVoltage.unit).toBe('V');
     expect(result.syncOffset.unit).toBe('s');
-    expect(result.inputs.video.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(result.inputs.video.sha256).toBe(sha256(clip));
     expect(result.fit.degreesOfFreedom).toBeGreaterThan(100);
     const csv = readFileSync(join(out, 'trace.csv'), 'utf8').trim().split('\n');
     expect(csv[0]).toBe('time_s,frame,voltage_V,intensity,model,residual,used,excluded_reason');
-    expect(csv).toHaveLength(601);
+    expect(csv).toHaveLength(truth.frames + 1);
     const again = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--out', out, '--quiet']);
     expectOneLineError(again, /already exists.*--force/);
   });
 
-  it('--json prints result.json', () => {
-    const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', '213,147,56,58', '--out', join(work, 'json'), '--json', '--no-report']);
+  it('--force replaces the folder it wrote with the new run, and touches nothing else', () => {
+    const out = join(work, 'forced');
+    const neighbour = join(work, 'notes.txt');
+    writeFileSync(neighbour, 'cell A, filled Tuesday\n');
+    const inputsBefore = [sha256(clip), sha256(volts)];
+    expect(kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report', '--label', 'first']).code).toBe(0);
+    const first = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
+    expect(first.label).toBe('first');
+    writeFileSync(join(out, 'stale.txt'), 'left by the first run\n');
+    const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report', '--label', 'second', '--force']);
+    expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
-    expect(JSON.parse(r.stdout).kind).toBe('kerrtrace-run');
+    const second = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
+    expect(second.label).toBe('second'); // the content really is the new run's
+    expect(second.kerrConstant.value).toBe(first.kerrConstant.value); // same inputs, same answer
+    expect(existsSync(join(out, 'stale.txt'))).toBe(false); // replaced whole, not merged
+    expect(readFileSync(join(out, 'trace.csv'), 'utf8').trim().split('\n')).toHaveLength(truth.frames + 1);
+    expect(readFileSync(neighbour, 'utf8')).toBe('cell A, filled Tuesday\n'); // nothing else touched
+    expect([sha256(clip), sha256(volts)]).toEqual(inputsBefore);
+    expect(readdirSync(work).filter((f) => f.includes('partial') || f.startsWith('.'))).toEqual([]);
+  });
+
+  it('--json prints result.json', () => {
+    const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', join(work, 'json'), '--json', '--no-report']);
+    expect(r.code).toBe(0);
+    const printedJson = JSON.parse(r.stdout);
+    expect(printedJson.kind).toBe('kerrtrace-run');
+    expect(printedJson).toEqual(JSON.parse(readFileSync(join(work, 'json', 'result.json'), 'utf8')));
   });
 
   const bad: [string, (dir: string) => string[], RegExp][] = [

@@ -8,11 +8,13 @@ import { existsSync, readdirSync, readFileSync, writeFileSync, mkdirSync } from 
 import { join, resolve } from 'node:path';
 import { ffprobeDecodedFrameCount, ffprobeStreams, makeClip, tempDir } from '../helpers/makeClip.js';
 import { parseRate } from '../../src/media/probe.js';
+import { cliEnv } from '../helpers/cliEnv.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 const BIN = resolve(__dirname, '../../bin/kerrtrace.js');
 
 function cli(args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: { ...process.env, KERRTRACE_DEBUG: '' } });
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: cliEnv() });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -38,7 +40,7 @@ describe('kerrtrace inspect', () => {
     { name: 'c.mp4', spec: { width: 176, height: 144, fps: 50, durationS: 0.6, rotate: 90 } },
     { name: 'd.mp4', spec: { width: 160, height: 120, fps: 30, durationS: 1.5, vfr: true as const } },
   ];
-  it.each(clips)('--json agrees with ffprobe for $name', async ({ name, spec }) => {
+  it.each(clips)('--json agrees with ffprobe for $name', { tags: [OUTSIDE.ffprobe] }, async ({ name, spec }) => {
     const clip = await makeClip(tmp.dir, name, spec);
     const r = cli(['inspect', clip, '--json']);
     expect(r.status).toBe(0);
@@ -96,8 +98,10 @@ describe('kerrtrace trace', () => {
     writeFileSync(out, 'keep me');
     expectOneLineError(cli(['trace', clip, '--roi', '10,10,20,20', '--out', out]), /already exists.*--force/);
     expect(readFileSync(out, 'utf8')).toBe('keep me');
+    writeFileSync(join(tmp.dir, 'neighbour.csv'), 'time_s\n0\n');
     expect(cli(['trace', clip, '--roi', '10,10,20,20', '--out', out, '--transfer', 'bt709', '--force', '--quiet']).status).toBe(0);
-    expect(readFileSync(out, 'utf8')).toBe(written);
+    expect(readFileSync(out, 'utf8')).toBe(written); // 'keep me' really was replaced by the trace
+    expect(readFileSync(join(tmp.dir, 'neighbour.csv'), 'utf8')).toBe('time_s\n0\n'); // nothing else touched
     expect(readdirSync(tmp.dir).filter((f) => f.includes('.partial-'))).toEqual([]);
   });
 

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { mean, sampleStandardDeviation, tTestTwoSample } from 'simple-statistics';
 import { changeBetween } from '../../src/compare/changeBetween.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 describe('changeBetween', () => {
-  it('matches a hand calculation of difference, relative change and z (first-order propagation, GUM §5.1.2)', () => {
+  it('matches a hand calculation of difference, relative change and z (first-order propagation, GUM §5.1.2)', { tags: [OUTSIDE.gum] }, () => {
     // a = 0.0120 ± 0.0007, b = 0.0046 ± 0.0003 (floor fraction before and after filtering).
     // Δ = −0.0074; σΔ = √(0.0007² + 0.0003²) = √(4.9e-7 + 0.9e-7) = √5.8e-7 = 7.6158e-4
     // r = 0.0046/0.0120 − 1 = −0.616667; σr = √((0.0046·0.0007/0.0120²)² + (0.0003/0.0120)²)
@@ -17,7 +18,7 @@ describe('changeBetween', () => {
     expect(zScore).toBeCloseTo(-9.7167, 4);
   });
 
-  it('gives the same z as simple-statistics’ two-sample t-test for equal-size samples', () => {
+  it('gives the same z as simple-statistics’ two-sample t-test for equal-size samples', { tags: [OUTSIDE.simpleStatistics] }, () => {
     // With equal sizes n, the pooled-variance t of simple-statistics' tTestTwoSample equals
     // (m₂ − m₁)/√(s₁²/n + s₂²/n) — exactly our z with stdErr = s/√n (Welch 1947; pooled t with n₁ = n₂).
     const before = [2.41, 2.38, 2.44, 2.40, 2.39, 2.43, 2.42, 2.37, 2.45, 2.40].map((x) => x * 1e-12);

@@ -3,18 +3,19 @@
  * Bad input must give one line on stderr and a non-zero exit code, never a stack trace.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { cliEnv } from '../helpers/cliEnv.js';
 
 const projectRoot = fileURLToPath(new URL('../../', import.meta.url));
 const fixtures = join(projectRoot, 'test/fixtures/results');
 let work: string;
 
 function kerrtrace(...args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [join(projectRoot, 'bin/kerrtrace.js'), ...args], { cwd: work, encoding: 'utf8', timeout: 120_000 });
+  const r = spawnSync(process.execPath, [join(projectRoot, 'bin/kerrtrace.js'), ...args], { cwd: work, encoding: 'utf8', timeout: 240_000, env: cliEnv() });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -47,10 +48,25 @@ describe('kerrtrace compare (CLI)', () => {
     for (const f of ['comparison.html', 'comparison.json', 'comparison.csv', 'summary.md']) expect(existsSync(join(work, 'cmp', f))).toBe(true);
   });
 
-  it('never overwrites an earlier comparison without --force', () => {
-    kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again');
+  it('never overwrites an earlier comparison without --force; --force replaces it whole and touches nothing else', () => {
+    expect(kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again', '--label', 'first A', '--label', 'first B').status).toBe(0);
+    const firstJson = readFileSync(join(work, 'again', 'comparison.json'), 'utf8');
+    expect(firstJson).toContain('first A');
+    writeFileSync(join(work, 'again', 'stale.txt'), 'left by hand\n');
+    writeFileSync(join(work, 'neighbour.txt'), 'not kerrtrace\'s\n');
     expectOneLineFailure(kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again'), /already exists .* add --force/);
-    expect(kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again', '--force').status).toBe(0);
+    expect(readFileSync(join(work, 'again', 'comparison.json'), 'utf8')).toBe(firstJson); // refused: untouched
+    const fixturesBefore = readdirSync(fixtures, { recursive: true }).map(String).sort().map((f) => [f, statSync(join(fixtures, f)).mtimeMs]);
+    const r = kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again', '--label', 'second A', '--label', 'second B', '--force');
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    const secondJson = readFileSync(join(work, 'again', 'comparison.json'), 'utf8');
+    expect(secondJson).toContain('second A'); // the content really was replaced
+    expect(secondJson).not.toContain('first A');
+    expect(readFileSync(join(work, 'again', 'summary.md'), 'utf8')).toContain('second B');
+    expect(existsSync(join(work, 'again', 'stale.txt'))).toBe(false); // replaced whole, not merged
+    expect(readFileSync(join(work, 'neighbour.txt'), 'utf8')).toBe('not kerrtrace\'s\n'); // nothing else touched
+    expect(readdirSync(fixtures, { recursive: true }).map(String).sort().map((f) => [f, statSync(join(fixtures, f)).mtimeMs])).toEqual(fixturesBefore);
   });
 
   it('refuses a missing result file in one line', () => {

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { findLiquid, LIQUIDS, liquidNames } from '../../src/data/liquids.js';
 import { isKerrError } from '../../src/errors.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 describe('built-in liquid table', () => {
-  it('holds exactly the values of shared/reference/README.md', () => {
+  it('holds exactly the values of docs/references.md', { tags: [OUTSIDE.publishedTables] }, () => {
     // nitrobenzene 2.4e-12 m/V^2 (Lux notes, 2.4e-10 cm/V^2); eps_r about 35 at 20 °C (handbook tables, from memory)
     const nb = findLiquid('nitrobenzene');
     expect(nb.kerrConstants.map((k) => k.valueMPerV2)).toEqual([2.4e-12]);

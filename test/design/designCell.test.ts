@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { AIR_BREAKDOWN_V_PER_M, designCell, RISE_10_90_PER_TAU, VACUUM_PERMITTIVITY_F_PER_M } from '../../src/design/designCell.js';
 import { isKerrError } from '../../src/errors.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 describe('designCell', () => {
-  it('inverse path reproduces the nitrobenzene half-wave worked example: K = 2.4e-10 cm/V^2 at 30 kV/cm needs L ≈ 2.3 cm (J. Lux, "Electro-optical theory" web notes)', () => {
+  it('inverse path reproduces the nitrobenzene half-wave worked example: K = 2.4e-10 cm/V^2 at 30 kV/cm needs L ≈ 2.3 cm (J. Lux, "Electro-optical theory" web notes)', { tags: [OUTSIDE.workedExamples] }, () => {
     // 30 kV/cm across a 1 cm gap is 30 kV; across 5 mm it is 15 kV: the length depends on the field only.
     for (const [gapM, targetV] of [[0.01, 30_000], [0.005, 15_000]] as const) {
       const d = designCell({ kerrConstantMPerV2: 2.4e-12, lengthM: 0.05, gapM, targetVoltageV: targetV });
@@ -20,7 +21,7 @@ describe('designCell', () => {
     expect(built.halfWaveVoltage.value).toBeCloseTo(12_000, 6);
   });
 
-  it('quarter-wave field matches the Irodov Kerr-cell problem: B = 2.2e-10 cm/V^2, l = 10 cm ⇒ E ≈ 1.1e4 V/cm (Irodov, Problems in General Physics; answer recomputed from E = 1/(2·sqrt(B·l)))', () => {
+  it('quarter-wave field matches the Irodov Kerr-cell problem: B = 2.2e-10 cm/V^2, l = 10 cm ⇒ E ≈ 1.1e4 V/cm (Irodov, Problems in General Physics; answer recomputed from E = 1/(2·sqrt(B·l)))', { tags: [OUTSIDE.workedExamples] }, () => {
     const d = designCell({ kerrConstantMPerV2: 2.2e-12, lengthM: 0.1, gapM: 0.01 });
     const fieldVPerCm = d.quarterWaveField.value / 100;
     expect(Math.abs(fieldVPerCm - 1.1e4)).toBeLessThan(0.05e4); // 1.066e4 rounds to 1.1e4
@@ -38,7 +39,7 @@ describe('designCell', () => {
     expect(longer.halfWaveVoltage.value).toBeCloseTo(d.halfWaveVoltage.value / 2, 6);
   });
 
-  it('capacitance uses eps0 = 8.8541878128e-12 F/m (CODATA 2018): hand calculation for 50 x 20 mm plates, 5 mm gap, eps_r 35', () => {
+  it('capacitance uses eps0 = 8.8541878128e-12 F/m (CODATA 2018): hand calculation for 50 x 20 mm plates, 5 mm gap, eps_r 35', { tags: [OUTSIDE.publishedTables] }, () => {
     expect(VACUUM_PERMITTIVITY_F_PER_M).toBe(8.8541878128e-12);
     const d = designCell({ kerrConstantMPerV2: 2.4e-12, lengthM: 0.05, gapM: 0.005, electrodeHeightM: 0.02, relativePermittivity: 35, sourceResistanceOhm: 50, riseTimeS: 10e-9 });
     // hand calc: C = 8.8541878128e-12 * 35 * (0.05*0.02) / 0.005 = 8.8541878128 * 7 pF = 61.9793146896 pF

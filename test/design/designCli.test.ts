@@ -3,12 +3,13 @@ import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
+import { cliEnv } from '../helpers/cliEnv.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const bin = `${root}bin/kerrtrace.js`;
 
 function run(args: string[]): { code: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [bin, 'design', ...args], { cwd: root, encoding: 'utf8', env: { ...process.env, KERRTRACE_DEBUG: '' } });
+  const r = spawnSync(process.execPath, [bin, 'design', ...args], { cwd: root, encoding: 'utf8', env: cliEnv() });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 

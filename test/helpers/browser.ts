@@ -3,6 +3,8 @@
  *   1. KERRTRACE_BROWSER: a path to the executable;
  *   2. `chromium`, `chromium-browser`, `google-chrome` on PATH (Debian: `apt-get install -y chromium`);
  *   3. none: the tests fail with one line saying how to get one.
+ * A browser shipped inside an npm package (@sparticuz/chromium) was evaluated as a third source and
+ * not adopted; DEVELOPERS.md says why.
  * KERRTRACE_SKIP_BROWSER=1 is the only way to skip them; the skip is printed in the run's summary
  * (see test/setup/summaryReporter.ts).
  * The launch flags keep the browser off the network and out of the user's profile.

@@ -34,3 +34,19 @@ export function benchClip(name: BenchClipName): { dir: string; clip: string; vol
     truth: referenceFile('bench-clips', name, 'truth.json'),
   };
 }
+
+const REPO_DIR = fileURLToPath(new URL('../../', import.meta.url));
+
+/**
+ * A file of test-media/ (the project's own rendered clips), after checking it exists; throws one
+ * line saying how to get it back, so a missing clip fails the test instead of skipping it.
+ */
+export function testMediaFile(...parts: string[]): string {
+  const p = join(REPO_DIR, 'test-media', ...parts);
+  if (!existsSync(p)) {
+    throw new Error(
+      `test media missing: test-media/${parts.join('/')} (it is part of the repository; restore it with: git checkout -- test-media, or re-render it with: npm run media)`,
+    );
+  }
+  return p;
+}

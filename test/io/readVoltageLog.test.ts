@@ -4,6 +4,8 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { KerrError } from '../../src/errors.js';
 import { readVoltageLog } from '../../src/io/readVoltageLog.js';
+import { BENCH_CLIP_NAMES, benchClip } from '../helpers/referenceData.js';
+import { benchClipTag } from '../setup/outsideSources.js';
 
 const scratch = mkdtempSync(join(tmpdir(), 'kerrtrace-log-'));
 afterAll(() => rmSync(scratch, { recursive: true, force: true }));
@@ -19,16 +21,16 @@ async function failure(path: string): Promise<KerrError> {
 }
 
 // Outside check: the three bench clips' logs and the log description in each truth.json
-// (/work/shared/reference/bench-clips/README.md: "the log's format").
+// (test/reference/README.md, bench-clips: "the log's format").
 describe('readVoltageLog on the bench clips (bench-clips README, truth.json voltageLog)', () => {
-  const root = '/work/shared/reference/bench-clips';
-  for (const clip of ['green_ramps', 'white_steps_reference_card', 'vfr_past_halfwave']) {
-    it(`${clip}: rows, span, delimiter, decimal comma and peak voltage match truth.json`, async () => {
-      const truth = JSON.parse(readFileSync(join(root, clip, 'truth.json'), 'utf8')) as {
+  for (const clip of BENCH_CLIP_NAMES) {
+    it(`${clip}: rows, span, delimiter, decimal comma and peak voltage match truth.json`, { tags: [benchClipTag(clip)] }, async () => {
+      const files = benchClip(clip);
+      const truth = JSON.parse(readFileSync(files.truth, 'utf8')) as {
         maxVoltage_V: number;
         voltageLog: { delimiter: string; decimalComma: boolean; rows: number; span_s: number; noise_V: number; format: string };
       };
-      const log = await readVoltageLog(join(root, clip, 'volts.csv'));
+      const log = await readVoltageLog(files.volts);
       expect(log.rows).toBe(truth.voltageLog.rows);
       expect(log.duplicateTimes).toBe(0);
       expect(log.delimiter).toBe(truth.voltageLog.delimiter);

@@ -3,6 +3,7 @@ import { createGridSampler } from '../../src/measure/gridSampler.js';
 import { srgbToLinear, bt709ToLinear } from '../../src/core/camera/transfer.js';
 import type { CameraDecoding, Frame } from '../../src/media/types.js';
 import { KerrError } from '../../src/errors.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 const decoding: CameraDecoding = { range: 'limited', matrix: 'bt709', transfer: 'srgb', clipCode: 250 };
 
@@ -19,7 +20,7 @@ describe('createGridSampler', () => {
     expect([g.gridWidth, g.gridHeight]).toEqual([10, 5]);
   });
 
-  it('gives each block the mean of the sRGB-linearised expanded luma of its pixels (IEC 61966-2-1)', () => {
+  it('gives each block the mean of the sRGB-linearised expanded luma of its pixels (IEC 61966-2-1)', { tags: [OUTSIDE.srgb] }, () => {
     const W = 37, H = 26, step = 4;
     const luma = (x: number, y: number): number => 16 + ((x * 7 + y * 13) % 219);
     const g = createGridSampler(W, H, step, decoding);
@@ -34,7 +35,7 @@ describe('createGridSampler', () => {
     }
   });
 
-  it('follows the chosen transfer (BT.709 inverse OETF, ITU-R BT.709-6) and full range', () => {
+  it('follows the chosen transfer (BT.709 inverse OETF, ITU-R BT.709-6) and full range', { tags: [OUTSIDE.bt709] }, () => {
     const g = createGridSampler(8, 8, 8, { ...decoding, transfer: 'bt709', range: 'full' });
     const out = new Float32Array(1);
     g.sample(lumaFrame(8, 8, () => 128), out);

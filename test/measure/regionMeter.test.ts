@@ -9,6 +9,7 @@ import { openFrameStream } from '../../src/media/frameStream.js';
 import type { CameraDecoding, Frame, Rect } from '../../src/media/types.js';
 import { KerrError } from '../../src/errors.js';
 import { exportFramePng, makeClip, tempDir } from '../helpers/makeClip.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 const decoding: CameraDecoding = { range: 'limited', matrix: 'bt709', transfer: 'srgb', clipCode: 250 };
 
@@ -48,7 +49,7 @@ function referenceMeans(frame: Frame, rect: Rect, d: CameraDecoding): { r: numbe
 }
 
 describe('createRegionMeter on synthetic frames', () => {
-  it('reads a flat grey patch as the sRGB linear value of its expanded code (IEC 61966-2-1)', () => {
+  it('reads a flat grey patch as the sRGB linear value of its expanded code (IEC 61966-2-1)', { tags: [OUTSIDE.srgb] }, () => {
     const frame = makeFrame(64, 48, () => 126, () => [128, 128]);
     const [s] = createRegionMeter(64, 48, [{ x: 5, y: 7, w: 20, h: 10 }], decoding).measure(frame);
     const expected = srgbToLinear((126 - 16) / 219);
@@ -60,7 +61,7 @@ describe('createRegionMeter on synthetic frames', () => {
     expect(s!.clippedFraction).toBe(0);
   });
 
-  it('weights linear R, G, B by Rec. 709 luminance coefficients 0.2126/0.7152/0.0722 (ITU-R BT.709-6)', () => {
+  it('weights linear R, G, B by Rec. 709 luminance coefficients 0.2126/0.7152/0.0722 (ITU-R BT.709-6)', { tags: [OUTSIDE.bt709] }, () => {
     const frame = makeFrame(32, 32, (x) => 60 + 3 * x, (cx, cy) => [90 + 4 * cx, 200 - 3 * cy]);
     const [s] = createRegionMeter(32, 32, [{ x: 3, y: 5, w: 21, h: 17 }], decoding).measure(frame);
     expect(s!.luma).toBeCloseTo(0.2126 * s!.r + 0.7152 * s!.g + 0.0722 * s!.b, 12);
@@ -102,7 +103,7 @@ describe('createRegionMeter on synthetic frames', () => {
   });
 });
 
-describe('region means from the frame stream against independent decoders', () => {
+describe('region means from the frame stream against independent decoders', { tags: [OUTSIDE.sharp, OUTSIDE.jimp] }, () => {
   let tmp: Awaited<ReturnType<typeof tempDir>>;
   beforeAll(async () => { tmp = await tempDir('meter'); });
   afterAll(async () => { await tmp.cleanup(); });

@@ -5,8 +5,9 @@ import { probeMedia } from '../../src/media/probe.js';
 import { KerrError } from '../../src/errors.js';
 import type { Frame } from '../../src/media/types.js';
 import { ffprobeFrameTimes, makeClip, tempDir } from '../helpers/makeClip.js';
+import { benchClip } from '../helpers/referenceData.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
-const BENCH = '/work/shared/reference/bench-clips';
 
 /** Copies of the Y planes (frame data is reused by the stream). */
 async function lumaPlanes(stream: AsyncIterable<Frame>, limit = Infinity): Promise<Array<{ index: number; timeS: number; width: number; height: number; y: Uint8Array }>> {
@@ -53,7 +54,7 @@ describe('openFrameStream', () => {
     expect(buffers.size).toBe(1);
   });
 
-  it('times variable-frame-rate frames by the container timestamps, as ffprobe does frame by frame', async () => {
+  it('times variable-frame-rate frames by the container timestamps, as ffprobe does frame by frame', { tags: [OUTSIDE.ffprobe] }, async () => {
     const vfr = await makeClip(tmp.dir, 'vfr.mp4', { width: 160, height: 120, fps: 30, durationS: 2, vfr: true });
     const reference = await ffprobeFrameTimes(vfr); // ffprobe -show_entries frame=pts_time (decodes the stream)
     const frames = await lumaPlanes(openFrameStream(vfr));
@@ -64,10 +65,10 @@ describe('openFrameStream', () => {
     expect(Math.max(...gaps) / Math.min(...gaps)).toBeGreaterThan(2);
   });
 
-  it('times the variable-frame-rate bench clip as its renderer did (bench-clips truth.json frameTimes_s, within 1 ms)', async () => {
-    const truth = JSON.parse(readFileSync(`${BENCH}/vfr_past_halfwave/truth.json`, 'utf8')) as { frameTimes_s: number[] };
+  it('times the variable-frame-rate bench clip as its renderer did (bench-clips truth.json frameTimes_s, within 1 ms)', { tags: [OUTSIDE.vfr] }, async () => {
+    const truth = JSON.parse(readFileSync(benchClip('vfr_past_halfwave').truth, 'utf8')) as { frameTimes_s: number[] };
     const times: number[] = [];
-    for await (const f of openFrameStream(`${BENCH}/vfr_past_halfwave/clip.mp4`, { crop: { x: 0, y: 0, w: 16, h: 16 } })) times.push(f.timeS);
+    for await (const f of openFrameStream(benchClip('vfr_past_halfwave').clip, { crop: { x: 0, y: 0, w: 16, h: 16 } })) times.push(f.timeS);
     // The muxer's edit list hides the very last frame (the probe notes it); every shown frame matches.
     expect(times.length).toBeGreaterThanOrEqual(truth.frameTimes_s.length - 1);
     times.forEach((t, i) => expect(Math.abs(t - truth.frameTimes_s[i]!)).toBeLessThan(1e-3));

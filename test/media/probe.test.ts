@@ -4,8 +4,9 @@ import { join } from 'node:path';
 import { isVariableFrameRate, parseRate, probeMedia, probeVideo } from '../../src/media/probe.js';
 import { KerrError } from '../../src/errors.js';
 import { ffmpeg, ffprobeDecodedFrameCount, ffprobeStreams, makeClip, tempDir } from '../helpers/makeClip.js';
+import { benchClip } from '../helpers/referenceData.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
-const BENCH = '/work/shared/reference/bench-clips';
 
 async function probeError(path: string): Promise<KerrError> {
   try {
@@ -17,7 +18,7 @@ async function probeError(path: string): Promise<KerrError> {
   throw new Error(`expected ${path} to be refused`);
 }
 
-describe('probeVideo against ffprobe', () => {
+describe('probeVideo against ffprobe', { tags: [OUTSIDE.ffprobe] }, () => {
   let tmp: Awaited<ReturnType<typeof tempDir>>;
   beforeAll(async () => { tmp = await tempDir('probe'); });
   afterAll(async () => { await tmp.cleanup(); });
@@ -81,13 +82,13 @@ describe('probeVideo against ffprobe', () => {
     expect(info.frameCount).toBe(await ffprobeDecodedFrameCount(mkv));
   });
 
-  it('reads the variable-frame-rate bench clip as VFR with its 1/60 s tick and longest interval (bench-clips truth.json: maxFrameInterval_s)', async () => {
-    const truth = JSON.parse(readFileSync(`${BENCH}/vfr_past_halfwave/truth.json`, 'utf8')) as { maxFrameInterval_s: number };
-    const p = await probeMedia(`${BENCH}/vfr_past_halfwave/clip.mp4`);
+  it('reads the variable-frame-rate bench clip as VFR with its 1/60 s tick and longest interval (bench-clips truth.json: maxFrameInterval_s)', { tags: [OUTSIDE.vfr] }, async () => {
+    const truth = JSON.parse(readFileSync(benchClip('vfr_past_halfwave').truth, 'utf8')) as { maxFrameInterval_s: number };
+    const p = await probeMedia(benchClip('vfr_past_halfwave').clip);
     expect(p.info.variableFrameRate).toBe(true);
     expect(p.frameIntervalS!.min).toBeCloseTo(1 / 60, 4);
     expect(p.frameIntervalS!.max).toBeCloseTo(truth.maxFrameInterval_s, 4);
-    const cfr = await probeVideo(`${BENCH}/green_ramps/clip.mp4`);
+    const cfr = await probeVideo(benchClip('green_ramps').clip);
     expect(cfr.variableFrameRate).toBe(false);
     expect(cfr.nominalFps).toBe(30);
   });

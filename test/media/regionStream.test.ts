@@ -6,6 +6,7 @@ import { rawPipesArgs } from '../../src/media/rawVideoPipes.js';
 import { probeMedia } from '../../src/media/probe.js';
 import { KerrError } from '../../src/errors.js';
 import { ffprobeFrameTimes, makeClip, tempDir } from '../helpers/makeClip.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 describe('openRegionStream', () => {
   let tmp: Awaited<ReturnType<typeof tempDir>>;
@@ -45,7 +46,7 @@ describe('openRegionStream', () => {
     expect(existsSync(`/proc/${(await stream.closed())!.pid}`)).toBe(false);
   });
 
-  it('times frames by the container timestamps (ffprobe per-frame pts of a variable-frame-rate clip)', async () => {
+  it('times frames by the container timestamps (ffprobe per-frame pts of a variable-frame-rate clip)', { tags: [OUTSIDE.ffprobe] }, async () => {
     const vfr = await makeClip(tmp.dir, 'vfr.mp4', { width: 160, height: 120, fps: 30, durationS: 1.5, vfr: true });
     const reference = await ffprobeFrameTimes(vfr);
     const times: number[] = [];

@@ -1,32 +1,22 @@
 /**
- * The whole analyze path against the outside bench clips in shared/reference/bench-clips: three
- * recordings with known truth made by a renderer that is not part of kerrtrace (see its README,
- * which states that a careful analysis recovers B within 1 %, the offset within a frame and the
- * floor within 0.002). The issue's own bar is B within 2 %, offset within one frame period.
+ * The whole analyze path against the outside bench clips in test/reference/bench-clips: three
+ * recordings with known truth made by a renderer that is not part of kerrtrace (provenance in
+ * test/reference/README.md, which quotes the renderer's notes: a careful analysis recovers B within
+ * 1 %, the offset within a frame and the floor fraction within 0.002). Every other bound below is
+ * derived from those three by the physics (test/helpers/benchTruth.ts says how).
  */
-import { existsSync, readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { analyzeRun, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { benchClip, type BenchClipName } from '../helpers/referenceData.js';
+import { B_REL, COVERAGE_K, FLOOR_ABS, expectHeadlineMatchesTruth, readBenchTruth } from '../helpers/benchTruth.js';
+import { benchClipTag } from '../setup/outsideSources.js';
 
-const CLIPS = join(__dirname, '..', '..', '..', 'shared', 'reference', 'bench-clips');
-const have = existsSync(CLIPS);
-
-interface Truth {
-  B: number; L_mm: number; d_mm: number; offset_s: number; floorFraction: number; framePeriod_s: number;
-  maxFrameInterval_s: number; roi: [number, number, number, number]; referenceRoi?: [number, number, number, number];
-  halfWaveVoltage_V: number; contrastRatio: number;
-}
-
-function truthOf(name: string): Truth {
-  return JSON.parse(readFileSync(join(CLIPS, name, 'truth.json'), 'utf8')) as Truth;
-}
-
-async function run(name: string, withRoi: boolean) {
-  const t = truthOf(name);
+async function run(name: BenchClipName, withRoi: boolean) {
+  const t = readBenchTruth(name);
+  const files = benchClip(name);
   const o: AnalyzeOptions = {
-    videoPath: join(CLIPS, name, 'clip.mp4'),
-    voltsPath: join(CLIPS, name, 'volts.csv'),
+    videoPath: files.clip,
+    voltsPath: files.volts,
     lengthMm: t.L_mm,
     gapMm: t.d_mm,
   };
@@ -36,23 +26,19 @@ async function run(name: string, withRoi: boolean) {
   return { t, r: out.result };
 }
 
-describe.skipIf(!have)('analyze on the outside bench clips (shared/reference/bench-clips)', () => {
-  for (const name of ['green_ramps', 'vfr_past_halfwave', 'white_steps_reference_card']) {
-    it(`${name}: recovers B within 1 %, the offset within one frame and the floor within 0.002 (bench-clips README)`, async () => {
+describe('analyze on the outside bench clips (test/reference/bench-clips)', () => {
+  for (const name of ['green_ramps', 'vfr_past_halfwave', 'white_steps_reference_card'] as const) {
+    it(`${name}: recovers B within 1 %, the offset within one frame and the floor within 0.002 (bench-clips README)`, { tags: [benchClipTag(name)] }, async () => {
       const { t, r } = await run(name, true);
       expect(r.identifiable).toBe(true);
-      expect(Math.abs(r.kerrConstant.value / t.B - 1)).toBeLessThan(0.01);
-      expect(Math.abs(r.halfWaveVoltage.value / t.halfWaveVoltage_V - 1)).toBeLessThan(0.005);
-      expect(Math.abs(r.syncOffset.value - t.offset_s)).toBeLessThan(t.framePeriod_s);
-      expect(Math.abs(r.floorFraction.value - t.floorFraction)).toBeLessThan(0.002);
-      expect(Math.abs(r.contrastRatio.value / t.contrastRatio - 1)).toBeLessThan(0.1);
-      // the stated uncertainty is honest: the truth lies within a few standard errors or 0.5 %
-      expect(Math.abs(r.kerrConstant.value - t.B)).toBeLessThan(Math.max(5 * r.kerrConstant.stdErr!, 0.005 * t.B));
+      expectHeadlineMatchesTruth(r, t);
       expect(r.events.filter((e) => e.kind === 'spark' || e.kind === 'particle')).toHaveLength(0);
     });
   }
 
-  it('green_ramps with the beam found automatically: B within 2 %, floor within 20 %', async () => {
+  // Without the ROI the beam region is the one analyze finds; the renderer's notes speak of any
+  // careful analysis, so the same bounds hold (B within 1 %, floor fraction within 0.002).
+  it('green_ramps with the beam found automatically: the beam inside the true ROI, B within 1 %, floor within 0.002', { tags: [benchClipTag('green_ramps')] }, async () => {
     const { t, r } = await run('green_ramps', false);
     expect(r.regions.beamAuto).toBe(true);
     const cx = r.regions.beam.x + r.regions.beam.w / 2;
@@ -61,7 +47,8 @@ describe.skipIf(!have)('analyze on the outside bench clips (shared/reference/ben
     expect(cx).toBeLessThan(t.roi[0] + t.roi[2]);
     expect(cy).toBeGreaterThan(t.roi[1]);
     expect(cy).toBeLessThan(t.roi[1] + t.roi[3]);
-    expect(Math.abs(r.kerrConstant.value / t.B - 1)).toBeLessThan(0.02);
-    expect(Math.abs(r.floorFraction.value / t.floorFraction - 1)).toBeLessThan(0.2);
+    expect(Math.abs(r.kerrConstant.value / t.B - 1)).toBeLessThan(B_REL);
+    expect(Math.abs(r.floorFraction.value - t.floorFraction)).toBeLessThan(FLOOR_ABS);
+    expect(Math.abs(r.kerrConstant.value - t.B)).toBeLessThan(COVERAGE_K * r.kerrConstant.stdErr!);
   });
 });

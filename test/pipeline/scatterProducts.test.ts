@@ -312,7 +312,7 @@ describe('computeScatterProducts after a simulated recording and the analyze pip
     // the core found on the maps contains the planted beam centre
     const core = sp.autoRegions!.core;
     expect(110 >= core.x && 110 < core.x + core.w && 90 >= core.y && 90 < core.y + core.h).toBe(true);
-  }, 120_000);
+  });
 
   it('reads the halo of a red top-hat beam in luminance: the grey-luma maps would put it 1.5× too high', async () => {
     // A 633 nm (red) top-hat under the BT.709 curve, measured with --roi: the grid behind the maps
@@ -335,5 +335,5 @@ describe('computeScatterProducts after a simulated recording and the analyze pip
     const out = await analyzeRun({ videoPath: clip, voltsPath: join(runDir, 'volts.csv'), lengthMm: 45, gapMm: 4.5, roi: { x: x!, y: y!, w: w!, h: h! } }, { toolVersion: 'test', ffmpegVersion: null });
     const sp = await computeScatterProducts(out, { videoPath: clip, gain: out.gain });
     expect(Math.abs(sp.scatter.haloToCoreRatio!.value / truth.haloToCoreRatio - 1)).toBeLessThan(0.15);
-  }, 120_000);
+  });
 });

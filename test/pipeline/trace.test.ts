@@ -5,8 +5,9 @@ import { regionTraceColumns, regionTraceCsv } from '../../src/pipeline/regionTra
 import { median } from '../../src/measure/exposure.js';
 import { KerrError } from '../../src/errors.js';
 import { makeClip, tempDir } from '../helpers/makeClip.js';
+import { benchClip } from '../helpers/referenceData.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
-const BENCH = '/work/shared/reference/bench-clips';
 
 interface CardTruth {
   referenceRoi: [number, number, number, number];
@@ -19,11 +20,11 @@ describe('traceVideo', () => {
   beforeAll(async () => { tmp = await tempDir('trace'); });
   afterAll(async () => { await tmp.cleanup(); });
 
-  it('recovers the drifting exposure of the reference-card bench clip from its grey card (bench-clips truth.json exposureGain, within 1.5 %)', async () => {
-    const truth = JSON.parse(readFileSync(`${BENCH}/white_steps_reference_card/truth.json`, 'utf8')) as CardTruth;
+  it('recovers the drifting exposure of the reference-card bench clip from its grey card (bench-clips truth.json exposureGain, within 1.5 %)', { tags: [OUTSIDE.whiteSteps] }, async () => {
+    const truth = JSON.parse(readFileSync(benchClip('white_steps_reference_card').truth, 'utf8')) as CardTruth;
     const [rx, ry, rw, rh] = truth.referenceRoi;
     const [bx, by, bw, bh] = truth.roi;
-    const t = await traceVideo(`${BENCH}/white_steps_reference_card/clip.mp4`, {
+    const t = await traceVideo(benchClip('white_steps_reference_card').clip, {
       regions: [{ x: bx, y: by, w: bw, h: bh }],
       reference: { x: rx, y: ry, w: rw, h: rh },
     });

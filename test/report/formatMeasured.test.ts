@@ -1,11 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { formatMeasured } from '../../src/report/formatMeasured.js';
 import { figure, formatFigure } from '../../src/report/figureCatalogue.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 // Convention: JCGM 100:2008 (GUM) §7.2.6 — the uncertainty is given with at most two significant
 // digits and the value is rounded to the same decimal place.
 describe('formatMeasured', () => {
-  it('rounds the error to two significant digits and the value to match', () => {
+  it('rounds the error to two significant digits and the value to match', { tags: [OUTSIDE.gum] }, () => {
     expect(formatMeasured(10212.4, 48.9)).toBe('10212 ± 49');
     expect(formatMeasured(0.41234, 0.0041)).toBe('0.4123 ± 0.0041');
     expect(formatMeasured(1.2, 0.07234)).toBe('1.200 ± 0.072');
@@ -29,7 +30,7 @@ describe('formatFigure', () => {
   });
 
   it('keeps the Kerr constant in SI m/V² with its power of ten', () => {
-    // 2.4e-12 m/V² is the nitrobenzene value in shared/reference/README.md (Lux notes, 2.4e-10 cm/V²).
+    // 2.4e-12 m/V² is the nitrobenzene value in docs/references.md (Lux notes, 2.4e-10 cm/V²).
     expect(formatFigure(figure('kerrConstant'), { value: 2.4e-12, stdErr: 2.9e-14 })).toBe('2.400 ± 0.029 × 10⁻¹² m/V²');
   });
 });

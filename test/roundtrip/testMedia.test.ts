@@ -6,11 +6,12 @@
  * as not identifiable, and an open-level clip must make it identifiable.
  * Regenerate the media with `npm run media`.
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { analyzeWithProducts } from '../../src/pipeline/analyzeWithProducts.js';
 import type { AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { testMediaFile } from '../helpers/referenceData.js';
 
 const MEDIA = join(__dirname, '..', '..', 'test-media');
 
@@ -22,8 +23,10 @@ interface Truth {
 
 function caseFiles(name: string) {
   const dir = join(MEDIA, name, 'run');
-  const truth = JSON.parse(readFileSync(join(dir, 'truth.json'), 'utf8')) as Truth & { cell?: unknown };
-  const scenario = JSON.parse(readFileSync(join(MEDIA, name, 'scenario.json'), 'utf8')) as { cell: { lengthMm: number; gapMm: number; effectiveLengthMm?: number; electrodeHeightMm?: number } };
+  testMediaFile(name, 'run', 'clip.mp4'); // a missing clip fails here with how to get it back
+  testMediaFile(name, 'run', 'volts.csv');
+  const truth = JSON.parse(readFileSync(testMediaFile(name, 'run', 'truth.json'), 'utf8')) as Truth & { cell?: unknown };
+  const scenario = JSON.parse(readFileSync(testMediaFile(name, 'scenario.json'), 'utf8')) as { cell: { lengthMm: number; gapMm: number; effectiveLengthMm?: number; electrodeHeightMm?: number } };
   return { dir, truth, cell: scenario.cell };
 }
 
@@ -50,9 +53,7 @@ async function analyse(name: string, extra: Partial<AnalyzeOptions> = {}) {
   return { truth, r: out.result };
 }
 
-const have = existsSync(join(MEDIA, 'cfr-ramp', 'run', 'clip.mp4'));
-
-describe.skipIf(!have)('simulate → analyze round trips on test-media', () => {
+describe('simulate → analyze round trips on test-media', () => {
   it('cfr-ramp (beam found automatically): B within 2 %, offset within a frame, floor within 20 %', async () => {
     const { truth, r } = await analyse('cfr-ramp');
     expect(Math.abs(r.kerrConstant.value / truth.B - 1)).toBeLessThan(0.02);
@@ -91,7 +92,7 @@ describe.skipIf(!have)('simulate → analyze round trips on test-media', () => {
     const plain = await analyse('low-sweep', { roi });
     expect(plain.r.identifiable).toBe(false);
     expect(plain.r.warnings.map((w) => w.code)).toContain('not-identifiable');
-    const opened = await analyse('low-sweep', { roi, openVideoPath: join(MEDIA, 'low-sweep', 'open', 'clip.mp4') });
+    const opened = await analyse('low-sweep', { roi, openVideoPath: testMediaFile('low-sweep', 'open', 'clip.mp4') });
     expect(opened.r.identifiable).toBe(true);
     expect(Math.abs(opened.r.kerrConstant.value / truth.B - 1)).toBeLessThan(0.02);
   });

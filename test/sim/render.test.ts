@@ -5,6 +5,7 @@ import { frameTimes } from '../../src/sim/frameTimes.js';
 import { makeRng } from '../../src/sim/rng.js';
 import { exposeFrame, renderFrame, renderRadiance } from '../../src/sim/render.js';
 import { makeCodeEncoder } from '../../src/sim/transfer.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 const W = 64;
 const H = 48;
@@ -40,7 +41,7 @@ function centreRadiance(scene: ReturnType<typeof bench>): [number, number, numbe
   return [work[j]!, work[j + 1]!, work[j + 2]!];
 }
 
-describe('renderer beam centre against the Jones transmission (any optics text; shared/reference/README.md)', () => {
+describe('renderer beam centre against the Jones transmission (any optics text; docs/references.md)', { tags: [OUTSIDE.workedExamples] }, () => {
   const cell = { kerrConstantMPerV2: 2.4e-12, lengthMm: 50, gapMm: 5 };
   const halfWaveV = 0.005 / Math.sqrt(2 * 2.4e-12 * 0.05); // d/√(2BL) ≈ 10206 V
 

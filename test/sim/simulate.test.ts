@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { chmodSync, existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -8,6 +8,7 @@ import { ffmpegPath, ffprobePath } from '../../src/media/ffmpegPaths.js';
 import { parseScenario } from '../../src/sim/scenario.js';
 import { simulateRun } from '../../src/sim/simulate.js';
 import { makeCodeEncoder, srgbDecode } from '../../src/sim/transfer.js';
+import { cliEnv } from '../helpers/cliEnv.js';
 
 const work = mkdtempSync(join(tmpdir(), 'kerrtrace-sim-'));
 afterAll(() => rmSync(work, { recursive: true, force: true }));
@@ -182,10 +183,36 @@ describe('simulateRun (writes clip.mp4, volts.csv, truth.json, scenario.json)', 
     expect(readFileSync(join(work, 'seed-b', 'volts.csv'), 'utf8')).toBe(readFileSync(join(work, 'seed-a', 'volts.csv'), 'utf8'));
   });
 
-  it('leaves nothing behind when a run fails', async () => {
-    const dir = join(work, 'fails');
+  it('refuses a scenario it cannot render before touching the disk', () => {
+    const dir = join(work, 'refused');
     const json = { ...vfrJson(), camera: { ...vfrJson().camera, readNoise: 0, photonsPerFullScale: 0 } };
     expect(() => parseScenario(json, 'f.json')).toThrow(KerrError);
     expect(existsSync(dir)).toBe(false);
+  });
+
+  it('leaves nothing behind when a run fails part-way (the encoder dies after the first frames)', () => {
+    // A stand-in ffmpeg that answers -version like ffmpeg, then reads some frames and dies, as a
+    // crashing encoder or a full disk would. Run through the real command line, so the failure
+    // happens inside simulate after its staging folder exists.
+    const fake = join(work, 'dying-ffmpeg.cjs');
+    writeFileSync(fake, [
+      '#!/usr/bin/env node',
+      "if (process.argv.includes('-version')) { process.stdout.write('ffmpeg version 0.0-dying\\n'); process.exit(0); }",
+      'let got = 0;',
+      "process.stdin.on('data', (b) => { got += b.length; if (got > 200000) { process.stderr.write('dying on purpose\\n'); process.exit(1); } });",
+      "process.stdin.on('end', () => process.exit(1));",
+    ].join('\n'));
+    chmodSync(fake, 0o755);
+    const parent = mkdtempSync(join(work, 'fails-'));
+    const scenario = join(parent, 'scenario.json');
+    writeFileSync(scenario, JSON.stringify(cfrJson()));
+    const out = join(parent, 'run');
+    const env = cliEnv({ KERRTRACE_FFMPEG: fake });
+    const r = spawnSync(process.execPath, [join(__dirname, '..', '..', 'bin', 'kerrtrace.js'), 'simulate', scenario, '--out', out, '--quiet'], { encoding: 'utf8', env, timeout: 240_000 });
+    expect(r.status).not.toBe(0);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/^kerrtrace: /);
+    expect(existsSync(out)).toBe(false); // no output folder
+    expect(readdirSync(parent)).toEqual(['scenario.json']); // no staging folder left over either
   });
 });

@@ -3,18 +3,19 @@
  * `npm test` compiles dist/ before Vitest runs (run `npx tsc -p .` first when running this file alone).
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
+import { cliEnv } from '../helpers/cliEnv.js';
 
 const root = fileURLToPath(new URL('../../', import.meta.url));
 const work = mkdtempSync(join(tmpdir(), 'kerrtrace-sim-cli-'));
 afterAll(() => rmSync(work, { recursive: true, force: true }));
 
 function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [join(root, 'bin', 'kerrtrace.js'), ...args], { cwd: root, encoding: 'utf8', timeout: 120_000 });
+  const r = spawnSync(process.execPath, [join(root, 'bin', 'kerrtrace.js'), ...args], { cwd: root, encoding: 'utf8', timeout: 240_000, env: cliEnv() });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -57,7 +58,26 @@ describe('kerrtrace simulate (command line)', () => {
     const again = run(['simulate', file, '--out', out]);
     expect(again.status).toBe(2);
     expect(again.stderr).toMatch(/already holds files.*--force/);
-    expect(run(['simulate', file, '--out', out, '--force', '--quiet']).status).toBe(0);
+  });
+
+  it('--force replaces its four files with the new run and leaves everything else in the folder alone', () => {
+    const out = join(work, 'forced-run');
+    expect(run(['simulate', scenarioFile('first.json', good()), '--out', out, '--quiet']).status).toBe(0);
+    const firstLog = readFileSync(join(out, 'volts.csv'), 'utf8');
+    writeFileSync(join(out, 'notes.txt'), 'cell A, first fill\n'); // the user's own file beside ours
+    const second = good();
+    second.cell.kerrConstantMPerV2 = 4.8e-12;
+    const r = run(['simulate', scenarioFile('second.json', second), '--out', out, '--force', '--quiet']);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    const truth = JSON.parse(readFileSync(join(out, 'truth.json'), 'utf8')) as { B: number };
+    expect(truth.B).toBe(4.8e-12); // the content really is the second scenario's
+    expect(JSON.parse(readFileSync(join(out, 'scenario.json'), 'utf8')).cell.kerrConstantMPerV2).toBe(4.8e-12);
+    // The drive is a fraction of V_π, so twice the B drives to 1/√2 of the voltage: another log.
+    expect(readFileSync(join(out, 'volts.csv'), 'utf8')).not.toBe(firstLog);
+    expect(readFileSync(join(out, 'notes.txt'), 'utf8')).toBe('cell A, first fill\n'); // nothing else touched
+    expect(readdirSync(out).sort()).toEqual(['clip.mp4', 'notes.txt', 'scenario.json', 'truth.json', 'volts.csv']);
+    expect(readdirSync(work).filter((f) => f.includes('.tmp-'))).toEqual([]);
   });
 
   it('refuses an unknown key in one line naming it and the close valid key', () => {

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { bt709Decode, bt709Encode, makeCodeEncoder, srgbDecode, srgbEncode, transferEncode } from '../../src/sim/transfer.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
-describe('sRGB transfer (IEC 61966-2-1:1999, values as quoted in shared/reference/README.md)', () => {
+describe('sRGB transfer (IEC 61966-2-1:1999, values as quoted in docs/references.md)', { tags: [OUTSIDE.srgb] }, () => {
   it('encodes linear 0.214041 to 0.5 and decodes 0.5 back to 0.214041', () => {
     expect(srgbEncode(0.214041)).toBeCloseTo(0.5, 6);
     expect(srgbDecode(0.5)).toBeCloseTo(0.214041, 6);
@@ -22,7 +23,7 @@ describe('sRGB transfer (IEC 61966-2-1:1999, values as quoted in shared/referenc
   });
 });
 
-describe('BT.709 transfer (ITU-R BT.709-6)', () => {
+describe('BT.709 transfer (ITU-R BT.709-6)', { tags: [OUTSIDE.bt709] }, () => {
   it('inverse: L = V/4.5 below 0.081, ((V + 0.099)/1.099)^(1/0.45) above', () => {
     expect(bt709Decode(0.0405)).toBeCloseTo(0.0405 / 4.5, 12);
     expect(bt709Decode(0.5)).toBeCloseTo(Math.pow(0.599 / 1.099, 1 / 0.45), 12);
@@ -48,7 +49,7 @@ describe('makeCodeEncoder (linear light → 8-bit code)', () => {
     });
   }
 
-  it('puts linear 0.215861 at sRGB code 128, the level code 128 decodes to (IEC 61966-2-1)', () => {
+  it('puts linear 0.215861 at sRGB code 128, the level code 128 decodes to (IEC 61966-2-1)', { tags: [OUTSIDE.srgb] }, () => {
     const codes = makeCodeEncoder('srgb');
     expect(codes.encode(0.215861)).toBe(128);
     // 0.214041 encodes to 0.5 = code 127.5, right on a rounding boundary: 127 or 128, nothing else

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { measureImageRegions } from '../../src/stills/measureImageRegions.js';
 import { codeToLinearLut } from '../../src/stills/codeToLinearLut.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
-describe('codeToLinearLut', () => {
+describe('codeToLinearLut', { tags: [OUTSIDE.srgb] }, () => {
   it('8-bit sRGB: code 128 → 0.215861 (IEC 61966-2-1 check value)', () => {
     expect(codeToLinearLut('srgb', 255)[128]).toBeCloseTo(0.215861, 6);
   });
@@ -17,7 +18,7 @@ describe('codeToLinearLut', () => {
 });
 
 describe('measureImageRegions', () => {
-  it('means of linear channels, Rec. 709 luminance (ITU-R BT.709-6 weights), clipped fraction', () => {
+  it('means of linear channels, Rec. 709 luminance (ITU-R BT.709-6 weights), clipped fraction', { tags: [OUTSIDE.bt709] }, () => {
     const width = 4, height = 3, channels = 3;
     const data = new Uint8Array(width * height * channels);
     // region x=1..2, y=1..2: two pixels (255,0,0) and (0,255,0), two (0,0,255); one of each pure primary is clipped

@@ -7,6 +7,7 @@ import { Jimp } from 'jimp';
 import { readStillsSeries } from '../../src/stills/readStillsSeries.js';
 import { isKerrError } from '../../src/errors.js';
 import { BEAM_ROI, CARD_ROI, DARK_ROI, H, W, tempFolder, write16, writeJpeg, writePng8 } from './stillsFixtures.js';
+import { OUTSIDE } from '../setup/outsideSources.js';
 
 let cleanups: Array<() => void> = [];
 afterEach(() => {
@@ -56,7 +57,7 @@ describe('readStillsSeries', () => {
     expect(s.height).toBe(H);
   });
 
-  it('8-bit PNG linearised by sRGB: a uniform code 128 reads 0.215861 (IEC 61966-2-1 check value)', async () => {
+  it('8-bit PNG linearised by sRGB: a uniform code 128 reads 0.215861 (IEC 61966-2-1 check value)', { tags: [OUTSIDE.srgb] }, async () => {
     const dir = folder();
     await sharp({ create: { width: 32, height: 24, channels: 3, background: { r: 128, g: 128, b: 128 } } }).png().toFile(join(dir, '100V.png'));
     const s = await readStillsSeries(dir, { roi: { x: 4, y: 4, w: 10, h: 10 } });
@@ -85,7 +86,7 @@ describe('readStillsSeries', () => {
     expect(Math.abs(png.roiLinear[0]! - 0.214041)).toBeLessThan(2e-5);
   });
 
-  it('region means agree with an independent decoder (jimp) within 0.5 code value', async () => {
+  it('region means agree with an independent decoder (jimp) within 0.5 code value', { tags: [OUTSIDE.jimp] }, async () => {
     const dir = folder();
     await writeJpeg(join(dir, '2kV.jpg'), { beam: 0.25, noise: 0.05 });
     const roi = { x: 50, y: 40, w: 60, h: 35 };

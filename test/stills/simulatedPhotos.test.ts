@@ -11,6 +11,7 @@ import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 import { renderStillPhotos } from '../../src/sim/renderStillPhotos.js';
 import { halfWaveVoltageV } from '../../src/core/physics/kerr.js';
+import { cliEnv } from '../helpers/cliEnv.js';
 
 const ROOT = join(__dirname, '..', '..');
 const work = mkdtempSync(join(tmpdir(), 'kt-simphotos-'));
@@ -36,7 +37,7 @@ describe('photos rendered by the simulator', () => {
         .toFile(join(work, `photo_${p.voltageV}V.jpg`));
     }
     const r = spawnSync(process.execPath, [join(ROOT, 'bin', 'kerrtrace.js'), 'stills', work, '--length-mm', '45', '--gap-mm', '4.5',
-      '--roi', '87,57,27,27', '--dark-roi', '150,5,40,30', '--out', join(tmpdir(), `kt-simphotos-out-${process.pid}`), '--json', '--force'], { encoding: 'utf8', timeout: 120_000 });
+      '--roi', '87,57,27,27', '--dark-roi', '150,5,40,30', '--out', join(tmpdir(), `kt-simphotos-out-${process.pid}`), '--json', '--force'], { encoding: 'utf8', timeout: 240_000, env: cliEnv() });
     expect(r.stderr).toBe('');
     const result = JSON.parse(r.stdout) as { kerrConstant: { value: number }; source: string };
     rmSync(join(tmpdir(), `kt-simphotos-out-${process.pid}`), { recursive: true, force: true });

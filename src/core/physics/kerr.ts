@@ -5,7 +5,7 @@
  * Field between plates E = V/d. Retardance δ = 2π·Δn·L/λ = 2π·B·L·E² = 2π·B·L·V²/d².
  * Half-wave voltage V_π = d/√(2·B·L); quarter-wave V_π/√2.
  * Sources: the Kerr law and Jones calculus as in any optics text; worked examples listed in
- * shared/reference/README.md (nitrobenzene half-wave field; quarter-wave field problem).
+ * docs/references.md (nitrobenzene half-wave field; quarter-wave field problem).
  */
 
 /** Retardance δ in rad for voltage V across gap d with (effective) length L: δ = 2π·B·L·V²/d². */

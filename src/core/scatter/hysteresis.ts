@@ -1,7 +1,7 @@
 /**
  * Up/down disagreement of the Kerr constant. An impure liquid conducts; space charge builds up
  * while the field rises and screens it while it falls, so the apparent Kerr constant differs
- * between rising and falling |V| (common practice; see shared/reference/README.md, facts of the
+ * between rising and falling |V| (common practice; see docs/references.md, facts of the
  * trade). The usable frames are split by the sign of d|V|/dt:
  *
  *   rate_t = (|V(t+2)| − |V(t−2)|) / (t_{+2} − t_{−2})     (central difference over ±2 frames)

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { decodePixel, yuvTables } from '../../../src/core/camera/yuvToLinear.js';
 import { srgbToLinear } from '../../../src/core/camera/transfer.js';
 import type { CameraDecoding } from '../../../src/media/types.js';
+import { OUTSIDE } from '../../setup/outsideSources.js';
 
 const bt709Limited: CameraDecoding = { range: 'limited', matrix: 'bt709', transfer: 'srgb', clipCode: 250 };
 const bt601Limited: CameraDecoding = { range: 'limited', matrix: 'bt601', transfer: 'srgb', clipCode: 250 };
@@ -12,7 +13,7 @@ function decode(decoding: CameraDecoding, y: number, u: number, v: number): { co
   return { codes: [out[0]!, out[1]!, out[2]!], linear: [out[3]!, out[4]!, out[5]!], clipped };
 }
 
-describe('range expansion (ITU-R BT.709-6 / BT.601-7 8-bit quantisation: black 16, white 235, chroma 16..240)', () => {
+describe('range expansion (ITU-R BT.709-6 / BT.601-7 8-bit quantisation: black 16, white 235, chroma 16..240)', { tags: [OUTSIDE.bt709] }, () => {
   it('maps limited-range black and white to codes 0 and 255', () => {
     expect(decode(bt709Limited, 16, 128, 128).codes).toEqual([0, 0, 0]);
     const white = decode(bt709Limited, 235, 128, 128);
@@ -20,7 +21,7 @@ describe('range expansion (ITU-R BT.709-6 / BT.601-7 8-bit quantisation: black 1
     expect(white.clipped).toBe(true);
   });
 
-  it('maps full-range grey 128 to code 128 and linear 0.215861 (IEC 61966-2-1)', () => {
+  it('maps full-range grey 128 to code 128 and linear 0.215861 (IEC 61966-2-1)', { tags: [OUTSIDE.srgb] }, () => {
     const grey = decode({ ...bt709Limited, range: 'full' }, 128, 128, 128);
     for (const c of grey.codes) expect(c).toBeCloseTo(128, 9);
     for (const l of grey.linear) expect(l).toBeCloseTo(0.215861, 6);
@@ -40,7 +41,7 @@ describe('range expansion (ITU-R BT.709-6 / BT.601-7 8-bit quantisation: black 1
   });
 });
 
-describe('YUV→RGB matrices', () => {
+describe('YUV→RGB matrices', { tags: [OUTSIDE.bt709] }, () => {
   // 100 % colour bars in 8-bit limited range (common practice; the standard tables of
   // ITU-R BT.709 and BT.601 bars, from memory): [Y, Cb, Cr] → expected R'G'B' = primary.
   const bars709: Array<[string, [number, number, number], [number, number, number]]> = [

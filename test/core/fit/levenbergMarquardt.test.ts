@@ -3,6 +3,7 @@ import { levenbergMarquardt, type CurveModel } from '../../../src/core/fit/leven
 import { KerrError } from '../../../src/errors.js';
 import { NIST_MODELS, NIST_NAMES, expectedDof, loadNist, type NistSet } from './nistModels.js';
 import { seededNormal } from '../../helpers/random.js';
+import { OUTSIDE } from '../../setup/outsideSources.js';
 
 const relErr = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 
@@ -28,8 +29,8 @@ const matchesCertified = (set: NistSet, result: ReturnType<typeof levenbergMarqu
 const numericOnly = (model: CurveModel): CurveModel => ({ nParams: model.nParams, value: model.value });
 
 // Source for every number in this block: NIST Statistical Reference Datasets, nonlinear regression
-// (https://www.itl.nist.gov/div898/strd/nls/), copied to /work/shared/reference/nist-strd/*.json.
-describe('levenbergMarquardt against the 16 NIST StRD nonlinear regression sets', () => {
+// (https://www.itl.nist.gov/div898/strd/nls/), copied to test/reference/nist-strd/*.json (docs/references.md).
+describe('levenbergMarquardt against the 16 NIST StRD nonlinear regression sets', { tags: [OUTSIDE.nist] }, () => {
   for (const name of NIST_NAMES) {
     it(`${name}, start 2, analytic gradient: certified parameters (rel 1e-6), std errors (rel 1e-4), RSS (rel 1e-6)`, () => {
       const set = loadNist(name);
@@ -39,7 +40,7 @@ describe('levenbergMarquardt against the 16 NIST StRD nonlinear regression sets'
       expect(d.params).toBeLessThanOrEqual(1e-6);
       expect(d.stdErr).toBeLessThanOrEqual(1e-4);
       expect(d.rss).toBeLessThanOrEqual(1e-6);
-      // n − p; for Rat43 NIST prints 9 but its certified residual SD uses 11 (reference README).
+      // n − p; for Rat43 NIST prints 9 but its certified residual SD uses 11 (test/reference/nist-strd/README.md).
       expect(result.dof).toBe(expectedDof(set));
       expect(relErr(result.residualStdDev, set.certified.residualStdDev)).toBeLessThanOrEqual(1e-6);
     });

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { fitLine } from '../../../src/core/fit/lineFit.js';
 import { KerrError } from '../../../src/errors.js';
 import { seededNormal } from '../../helpers/random.js';
+import { OUTSIDE } from '../../setup/outsideSources.js';
 
 // Anscombe's quartet, data set I (F. J. Anscombe, "Graphs in statistical analysis",
 // The American Statistician 27, 1973): published summary y = 3.00 + 0.500·x, residual sum of
@@ -21,7 +22,7 @@ describe('fitLine', () => {
     expect(fit.r2).toBeCloseTo(0.667, 3);
   });
 
-  it('agrees with simple-statistics’ linearRegression and rSquared on noisy data', () => {
+  it('agrees with simple-statistics’ linearRegression and rSquared on noisy data', { tags: [OUTSIDE.simpleStatistics] }, () => {
     const normal = seededNormal(3);
     const x = Array.from({ length: 50 }, (_, i) => 1000 + i * 7.5);
     const y = x.map((v) => 2.5e6 + 3200 * v + 4e4 * normal());

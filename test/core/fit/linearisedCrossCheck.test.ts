@@ -4,7 +4,7 @@ import { crossedTransmission, DEG, halfWaveVoltageV, retardanceRad } from '../..
 import { KerrError } from '../../../src/errors.js';
 
 // Nitrobenzene B = 2.4e-12 m/V² (J. Lux, "Electro-optical theory" web notes: 2.4e-10 cm/V²;
-// shared/reference/README.md) in a cell of our own: gap 5 mm, effective length 50 mm, so
+// docs/references.md) in a cell of our own: gap 5 mm, effective length 50 mm, so
 // V_π = d/√(2·B·L) ≈ 10206 V.
 const B = 2.4e-12, L = 0.05, D = 0.005;
 const VPI = halfWaveVoltageV(B, L, D);

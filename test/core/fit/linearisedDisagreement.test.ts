@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { LinearisedCrossCheck } from '../../../src/core/fit/linearisedCrossCheck.js';
 import { linearisedDisagreement } from '../../../src/core/fit/linearisedDisagreement.js';
 
-// Nitrobenzene-like B = 2.4e-12 m/V² (J. Lux web notes; shared/reference/README.md).
+// Nitrobenzene-like B = 2.4e-12 m/V² (J. Lux web notes; docs/references.md).
 const FIT = { value: 2.4e-12, stdErr: 0.015e-12, unit: 'm/V^2' };
 const check = (value: number, zScore: number): LinearisedCrossCheck => ({ kerrConstant: { value, stdErr: 0.01e-12, unit: 'm/V^2' }, points: 6, agreesWithFit: Math.abs(zScore) < 3, zScore });
 

@@ -4,6 +4,7 @@ import { linearisedKerr } from '../../../src/core/fit/linearisedKerr.js';
 import { crossedTransmission, halfWaveVoltageV, retardanceRad } from '../../../src/core/physics/kerr.js';
 import { KerrError } from '../../../src/errors.js';
 import { seededNormal } from '../../helpers/random.js';
+import { OUTSIDE } from '../../setup/outsideSources.js';
 
 // Nitrobenzene B = 2.4e-12 m/V² (J. Lux, "Electro-optical theory" web notes: 2.4e-10 cm/V²) in a
 // cell of our own: gap 5 mm, length 5 cm → V_π = d/√(2BL) ≈ 10206 V.
@@ -29,7 +30,7 @@ describe('linearisedKerr (δ = 2·arcsin√T, V² = d²/(2πBL)·δ)', () => {
     expect(result.points).toBe(13);
   });
 
-  it('with noisy transmissions: slope equals simple-statistics’ linearRegression of V² on δ; B and σ_B follow by error propagation', () => {
+  it('with noisy transmissions: slope equals simple-statistics’ linearRegression of V² on δ; B and σ_B follow by error propagation', { tags: [OUTSIDE.simpleStatistics] }, () => {
     const normal = seededNormal(5);
     const voltages = Array.from({ length: 60 }, (_, i) => 3200 + i * 100);
     const transmission = voltages.map((v) => transmissionAt(v) + 0.004 * normal());

@@ -1,14 +1,14 @@
 /**
  * The 16 NIST StRD nonlinear-regression models, written by hand from the `model` strings of
- * /work/shared/reference/nist-strd/*.json (NIST Statistical Reference Datasets, nonlinear
- * regression, https://www.itl.nist.gov/div898/strd/nls/), with analytic gradients.
- * Roszman1 uses the principal-value arctangent (Math.atan), as NIST certifies (see the README there).
- * The data files are read at test time; REFERENCE_DIR may point elsewhere via KERRTRACE_REFERENCE_DIR.
+ * test/reference/nist-strd/*.json (NIST Statistical Reference Datasets, nonlinear
+ * regression, https://www.itl.nist.gov/div898/strd/nls/; provenance in test/reference/README.md),
+ * with analytic gradients. Roszman1 uses the principal-value arctangent (Math.atan), as NIST
+ * certifies (see test/reference/nist-strd/README.md). The data files are read at test time through
+ * test/helpers/referenceData.ts: a missing file fails with one line saying how to restore it.
  */
 import { readFileSync } from 'node:fs';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { CurveModel } from '../../../src/core/fit/levenbergMarquardt.js';
+import { referenceFile } from '../../helpers/referenceData.js';
 
 export interface NistSet {
   name: string;
@@ -27,12 +27,8 @@ export interface NistSet {
   };
 }
 
-const here = path.dirname(fileURLToPath(import.meta.url));
-export const REFERENCE_DIR =
-  process.env['KERRTRACE_REFERENCE_DIR'] ?? path.resolve(here, '../../../../shared/reference');
-
 export function loadNist(name: string): NistSet {
-  return JSON.parse(readFileSync(path.join(REFERENCE_DIR, 'nist-strd', `${name}.json`), 'utf8')) as NistSet;
+  return JSON.parse(readFileSync(referenceFile('nist-strd', `${name}.json`), 'utf8')) as NistSet;
 }
 
 const { exp, log, pow, atan, PI } = Math;

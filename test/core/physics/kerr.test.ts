@@ -12,8 +12,9 @@ import {
   quarterWaveFieldVPerM,
   retardanceRad,
 } from '../../../src/core/physics/kerr.js';
+import { OUTSIDE } from '../../setup/outsideSources.js';
 
-describe('Kerr relations', () => {
+describe('Kerr relations', { tags: [OUTSIDE.workedExamples] }, () => {
   it('half-wave field, worked example: nitrobenzene K = 2.4e-10 cm/V² at 30 kV/cm needs L = 1/(2KE²) ≈ 2.3 cm (J. Lux, "Electro-optical theory" web notes)', () => {
     const kerr = cmPerV2ToMPerV2(2.4e-10); // m/V²
     const fieldVPerM = 30e3 / 1e-2; // 30 kV/cm
@@ -50,7 +51,7 @@ describe('Kerr relations', () => {
   });
 });
 
-describe('jonesTransmission', () => {
+describe('jonesTransmission', { tags: [OUTSIDE.workedExamples] }, () => {
   it('Malus’s law at δ = 0: T = cos²θ (any optics text)', () => {
     for (const angleDeg of [0, 15, 30, 45, 60, 90, 135]) {
       expect(jonesTransmission(angleDeg * DEG + 0.2, 0.2, 0)).toBeCloseTo(Math.cos(angleDeg * DEG) ** 2, 14);

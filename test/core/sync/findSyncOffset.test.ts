@@ -1,10 +1,11 @@
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { findSyncOffset, type SyncInput } from '../../../src/core/sync/findSyncOffset.js';
 import { KerrError } from '../../../src/errors.js';
 import { readVoltageLog } from '../../../src/io/readVoltageLog.js';
 import { interpolateAt } from '../../../src/core/signal/interpolate.js';
+import { BENCH_CLIP_NAMES, benchClip } from '../../helpers/referenceData.js';
+import { benchClipTag } from '../../setup/outsideSources.js';
 
 /** Small deterministic PRNG (mulberry32) and a Gaussian from it (Box–Muller). */
 function rng(seed: number): { uniform: () => number; gauss: () => number } {
@@ -382,17 +383,16 @@ describe('findSyncOffset failures', () => {
 });
 
 // Outside check: the three bench clips' real logs and truth (B, L_mm, d_mm, offset_s, frame
-// times) from /work/shared/reference/bench-clips/README.md and each clip's truth.json. The
+// times) from test/reference/README.md (bench-clips) and each clip's truth.json. The
 // intensities follow that README's renderer model: ambient + gain·(A·T(V(t − offset)) + F), with
 // T = sin²(δ/2), δ = 2π·B·L·V²/d²; our synthesis only adds noise.
 describe('findSyncOffset on the bench clips\' voltage logs (bench-clips README and truth.json)', () => {
-  const root = '/work/shared/reference/bench-clips';
-  const clips = ['green_ramps', 'white_steps_reference_card', 'vfr_past_halfwave'];
   const vpiTolerance: Record<string, number> = { green_ramps: 0.02, white_steps_reference_card: 0.1, vfr_past_halfwave: 0.02 };
 
-  for (const clip of clips) {
-    it(`${clip}: offset within one frame of truth.json's offset_s`, async () => {
-      const truth = JSON.parse(readFileSync(join(root, clip, 'truth.json'), 'utf8')) as {
+  for (const clip of BENCH_CLIP_NAMES) {
+    it(`${clip}: offset within one frame of truth.json's offset_s`, { tags: [benchClipTag(clip)] }, async () => {
+      const files = benchClip(clip);
+      const truth = JSON.parse(readFileSync(files.truth, 'utf8')) as {
         B: number;
         L_mm: number;
         d_mm: number;
@@ -406,7 +406,7 @@ describe('findSyncOffset on the bench clips\' voltage logs (bench-clips README a
         ambient_linear: number;
         exposureGain: number | { terms: Array<[number, number, number]> };
       };
-      const log = await readVoltageLog(join(root, clip, 'volts.csv'));
+      const log = await readVoltageLog(files.volts);
       const frameTimesS = truth.frameTimes_s !== undefined ? Float64Array.from(truth.frameTimes_s) : regularTimes(truth.frames, truth.framePeriod_s);
       const lengthM = truth.L_mm / 1000;
       const gapM = truth.d_mm / 1000;
