@@ -1,6 +1,7 @@
 /**
  * `kerrtrace analyze VIDEO --volts CSV --length-mm L --gap-mm D [...]`: the main job.
  */
+import { parseTransfer as parseCoreTransfer } from '../../src/core/camera/transfer.js';
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { KerrError, invalid } from '../../src/errors.js';
@@ -18,11 +19,9 @@ export function parseNumber(text: string, option: string, what: string): number 
   return x;
 }
 
+/** The --transfer choice (srgb, bt709, hlg, pq, linear, gamma:G), parsed by the core's one parser. */
 export function parseTransfer(text: string): TransferName {
-  if (text === 'srgb' || text === 'bt709' || text === 'linear') return text;
-  const m = /^gamma:(\d+(?:\.\d+)?)$/.exec(text);
-  if (m && Number(m[1]) > 0) return `gamma:${Number(m[1])}`;
-  throw invalid('srgb, bt709, linear or gamma:G (e.g. gamma:2.2)', '--transfer', text);
+  return parseCoreTransfer(text, '--transfer');
 }
 
 function parseWindow(text: string): [number, number] {
@@ -90,7 +89,7 @@ export function register(program: Command): void {
     .option('--effective-length-mm <LE>', 'effective length including fringe fields, mm (default: --length-mm)')
     .option('--polariser-angle-deg <A>', 'polariser angle to the field, degrees (default 45)')
     .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
-    .option('--transfer <name>', 'camera transfer: srgb, bt709, gamma:G or linear (default: from the video metadata)')
+    .option('--transfer <name>', 'camera transfer: srgb, bt709, hlg, pq, gamma:G or linear (default: from the video metadata)')
     .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
     .option('--label <text>', 'a name for this run in reports and comparisons')
     .option('--wavelength-nm <nm>', 'wavelength of the light, nm (recorded; compare warns when runs differ)')

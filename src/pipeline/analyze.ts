@@ -16,6 +16,7 @@ import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/typ
 import { probeMedia, type ProbeResult } from '../media/probe.js';
 import { openAnalysisStream } from '../media/analysisStream.js';
 import { decodingFor } from '../core/camera/decodingFor.js';
+import { decodingWarnings } from './decodingWarnings.js';
 import { createRegionMeter } from '../measure/regionMeter.js';
 import { createGridSampler } from '../measure/gridSampler.js';
 import { validateRect } from '../measure/rect.js';
@@ -208,7 +209,7 @@ async function decodePass(path: string, probe: ProbeResult, decoding: CameraDeco
     const { pieces, ringOf } = nestedPieces(local);
     // Rings (pieces outside the innermost region) hold slowly varying background: every other row.
     const strides = ringOf.map((k) => (k > 0 ? 2 : 1));
-    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
+    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
   });
   const acc = new Float64Array(5);
   const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
@@ -265,6 +266,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const probe = await probeMedia(o.videoPath);
   const info = probe.info;
   const decoding = decodingFor(info, o.transfer ? { transfer: o.transfer } : {});
+  warnings.push(...decodingWarnings(probe.notes, decoding.notes));
   for (const [r, opt] of [[o.roi, '--roi'], [o.darkRoi, '--dark-roi'], [o.referenceRoi, '--reference-roi']] as const) {
     if (r) validateRect(r, info.width, info.height, opt);
   }
