@@ -82,5 +82,9 @@ describe.skipIf(!existsSync(join(ROOT, 'dist', 'cli', 'main.js')))('a transfer k
     expect(lines[0]).toMatch(/color_transfer log316.*not one kerrtrace can decode/);
     expect(existsSync(outDir)).toBe(false);
     expect(readFileSync(volts, 'utf8')).toMatch(/^time_s/);
+    // inspect shows such a file and says analyze would refuse it, without failing itself
+    const shown = spawnSync(process.execPath, [BIN, 'inspect', clip], { encoding: 'utf8' });
+    expect(shown.status).toBe(0);
+    expect(shown.stdout).toMatch(/decoding\s+REFUSED: .*log316/);
   });
 });
