@@ -7,8 +7,8 @@
  * the clip (core/camera/brightCore); pass 2 reads the core's mean R'G'B' code values in every frame
  * at full precision (10-bit clips too); frames with more than 1 % clipped pixels are left out; the
  * channel with the widest range is used. The light of each frame comes from Malus's law
- * (core/camera/malusLight): from the angle table (`anglesPath`, stepped, frames within the settling
- * time after a step left out) or from a steady rotation whose period is found in the clip.
+ * (core/camera/malusLight): from the angle table (`anglesPath`: steps, frames within 0.3 s after a
+ * step left out; or a continuous record, rows under 0.5 s apart, interpolated) or from a steady rotation whose period is found in the clip.
  * Photos: every JPEG/PNG/TIFF of the folder whose name holds its angle (`ang030.jpg`,
  * `step3_45deg.jpg`), decoded as the stills command does (orientation applied, ICC ignored); the
  * core from the brightest photo. Then fitResponseTable gives the monotone table and its residual.
@@ -159,9 +159,7 @@ async function calibrateFromVideo(o: CalibrateOptions, hooks: CalibrateHooks): P
       throw new KerrError('FILE_NOT_FOUND', `no angle table at ${o.anglesPath}`, { path: '--angles', hint: 'Give the CSV of time_s,angle_deg steps' });
     }
     const table = parseAngleTable(text, o.anglesPath);
-    let minStep = Infinity;
-    for (let k = 1; k < table.timeS.length; k++) minStep = Math.min(minStep, table.timeS[k]! - table.timeS[k - 1]!);
-    const angles = anglesAtTimes(table, timeArr, Math.min(DEFAULT_SETTLE_S, 0.25 * minStep));
+    const angles = anglesAtTimes(table, timeArr, DEFAULT_SETTLE_S);
     for (let i = 0; i < n; i++) if (!Number.isFinite(angles[i]!)) keep[i] = 0;
     const idx = Array.from({ length: n }, (_v, i) => i).filter((i) => keep[i]);
     const found = lightFromAngles(idx.map((i) => angles[i]!), idx.map((i) => series[channel]![i]!));

@@ -41,17 +41,29 @@ export function parseAngleTable(text: string, path: string): AngleTable {
   return { timeS, angleDeg };
 }
 
+/** Rows closer than this (median interval, s) are a continuous record of the angle, not steps. */
+export const CONTINUOUS_BELOW_S = 0.5;
+
 /**
- * The angle at each frame time from a stepped table, or NaN for frames within `settleS` after a
- * step (the analyser is being turned) or before the first step.
+ * The angle at each frame time. A stepped table (median row interval ≥ 0.5 s): the angle of the
+ * last step, or NaN within `settleS` after a step (the analyser is being turned) and before the
+ * first step. A continuous record (rows closer than that, e.g. from an encoder on a turntable):
+ * interpolated linearly between rows, NaN outside them.
  */
 export function anglesAtTimes(table: AngleTable, timesS: ArrayLike<number>, settleS: number): Float64Array {
   const out = new Float64Array(timesS.length);
+  const gaps = table.timeS.slice(1).map((t, k) => t - table.timeS[k]!).sort((a, b) => a - b);
+  const continuous = gaps[gaps.length >> 1]! < CONTINUOUS_BELOW_S;
+  const last = table.timeS.length - 1;
   let k = 0;
   for (let i = 0; i < timesS.length; i++) {
     const t = timesS[i]!;
     while (k + 1 < table.timeS.length && table.timeS[k + 1]! <= t) k++;
-    out[i] = t < table.timeS[0]! || t < table.timeS[k]! + settleS ? NaN : table.angleDeg[k]!;
+    if (t < table.timeS[0]!) out[i] = NaN;
+    else if (continuous) {
+      out[i] = k === last ? (t === table.timeS[last]! ? table.angleDeg[last]! : NaN)
+        : table.angleDeg[k]! + ((t - table.timeS[k]!) / (table.timeS[k + 1]! - table.timeS[k]!)) * (table.angleDeg[k + 1]! - table.angleDeg[k]!);
+    } else out[i] = t < table.timeS[k]! + settleS ? NaN : table.angleDeg[k]!;
   }
   return out;
 }

@@ -10,6 +10,15 @@ describe('angle table and angles in file names', () => {
     expect(Array.from(a)).toEqual([0, NaN, 15, 30]);
   });
 
+  it('interpolates a continuous record (rows under 0.5 s apart) instead of treating it as steps', () => {
+    const t = parseAngleTable('0,0\n0.1,9\n0.2,18\n', 'enc.csv');
+    const a = anglesAtTimes(t, [0.05, 0.15, 0.2, 0.3], 0.3);
+    expect(a[0]).toBeCloseTo(4.5, 12);
+    expect(a[1]).toBeCloseTo(13.5, 12);
+    expect(a[2]).toBe(18);
+    expect(a[3]).toBeNaN();
+  });
+
   it('names the line of a bad row or a time that goes back', () => {
     expect(() => parseAngleTable('0,0\n1,x\n', 'a.csv')).toThrow(/a\.csv:2/);
     expect(() => parseAngleTable('0,0\n2,10\n1,20\n', 'a.csv')).toThrow(/a\.csv:3: the time 1 s/);

@@ -2,13 +2,14 @@
  * The camera's true response, end to end with the project's simulator (numbers invented):
  * - video from a "phone" whose tone curve (power law 1.8 with a mid-tone S-curve) differs from its
  *   BT.709 tag: the run's response check warns; a calibration clip of the same camera (the
- *   analyser turning steadily, period found by the tool) run through `kerrtrace calibrate-camera`
- *   gives a profile, and with `--camera-profile` B comes within 2 % of the truth;
+ *   analyser turning steadily, period found by the tool; or the same clip with its angles as a
+ *   CSV record) run through `kerrtrace calibrate-camera` gives a profile, and with
+ *   `--camera-profile` B comes within 2 % of the truth;
  * - a photo series from a phone curve tagged sRGB: a calibration photo set (angle in each file
  *   name) gives a profile that brings B within 2 %.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
@@ -83,6 +84,14 @@ describe.skipIf(!haveCli)('a camera profile corrects a phone curve that its tags
     expect(Math.abs(tagsOnly.kerrConstant.value / B - 1)).toBeGreaterThan(0.02); // the profile is what fixes it
     expect(withProfile.cameraResponse).toMatchObject({ route: 'profile', profile: { path: profilePath } });
     expect(withProfile.cameraResponse!.check.departs).toBe(false);
+
+    // the same clip with the angles given as a record (0 = parallel; the analyser turns 90°/s)
+    const anglesCsv = join(work, 'angles.csv');
+    writeFileSync(anglesCsv, `time_s,angle_deg\n${Array.from({ length: 241 }, (_v, k) => `${(k / 30).toFixed(6)},${(3 * k).toFixed(3)}`).join('\n')}\n`);
+    const tablePath = join(work, 'phone-angles.json');
+    expect(kerrtrace(['calibrate-camera', cal.files.clip, '--angles', anglesCsv, '--out', tablePath, '--quiet']).code).toBe(0);
+    const withTable = (await analyzeRun({ ...o, cameraProfilePath: tablePath }, hooks)).result;
+    expect(Math.abs(withTable.kerrConstant.value / B - 1)).toBeLessThan(0.02);
 
     // a second run refuses to overwrite the profile without --force, in one line
     const again = kerrtrace(['calibrate-camera', cal.files.clip, '--out', profilePath, '--quiet']);
