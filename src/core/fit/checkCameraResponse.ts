@@ -64,7 +64,8 @@ export interface ResponseCheck {
   departs: boolean;
 }
 
-const OPEN_POINT = Number.POSITIVE_INFINITY;
+/** x of the open-level point: a finite marker no voltage reaches (the least-squares code wants finite x). */
+const OPEN_POINT = Number.MAX_VALUE;
 const OPEN_WEIGHT = 10;
 
 function skipped(reason: string): ResponseCheck {
@@ -124,12 +125,17 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const vpi0 = fit.halfWaveVoltageV;
   const phi0 = Math.max(1e-4, fit.floor / fit.amplitude);
   const start = [fit.amplitude, phi0, 1, vpi0];
-  const res = levenbergMarquardt(model, x, y, start, {
-    lower: [0, 1e-6, 0.25, 0.5 * vpi0],
-    upper: [Infinity, 10, 4, 2 * vpi0],
-    weights,
-    maxIterations: 300,
-  });
+  let res: ReturnType<typeof levenbergMarquardt>;
+  try {
+    res = levenbergMarquardt(model, x, y, start, {
+      lower: [0, 1e-6, 0.25, 0.5 * vpi0],
+      upper: [Infinity, 10, 4, 2 * vpi0],
+      weights,
+      maxIterations: 300,
+    });
+  } catch (e) {
+    return skipped(`the joint fit of response and half-wave voltage could not run (${e instanceof Error ? e.message : String(e)})`);
+  }
   if (!Number.isFinite(res.rss) || !(res.stdErr[2]! > 0) || !(res.stdErr[3]! > 0)) {
     return skipped(`the joint fit of response and half-wave voltage did not settle (${res.reason})`);
   }

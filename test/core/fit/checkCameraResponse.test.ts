@@ -7,7 +7,7 @@ const L = 0.05, D = 0.005, B = 2.4e-12;
 const VPI = D / Math.sqrt(2 * B * L); // V_π = d/√(2BL) (Kerr law)
 
 /** A sweep to `reach`·V_π and back; the camera reports (F + A·u)^(1/γ) plus noise (invented test data). */
-function run(gamma: number, reach: number, seed: number) {
+function run(gamma: number, reach: number, seed: number, withOpenLevel = false) {
   const rng = makeRng(seed);
   const n = 400;
   const v = new Float64Array(n), y = new Float64Array(n);
@@ -22,6 +22,8 @@ function run(gamma: number, reach: number, seed: number) {
     fit: { floor: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
     polariserAngleDeg: 45, effectiveLengthM: L, gapM: D,
     kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+    // the open level is measured through the same camera: (floor + amplitude)^(1/γ)
+    ...(withOpenLevel ? { openLevel: Math.pow(0.51, 1 / gamma) } : {}),
   });
   return { fit, check };
 }
@@ -41,6 +43,13 @@ describe('checkCameraResponse: a power-law departure fitted jointly with V_π', 
     expect(Math.abs(check.kerrConstantAtGamma.value / B - 1)).toBeLessThan(Math.abs(fit.kerrConstant.value / B - 1));
     // the named uncertainty term covers the error of the γ = 1 figure
     expect(check.standardUncertainty.value).toBeGreaterThan(0.8 * Math.abs(fit.kerrConstant.value - B));
+  });
+
+  it('runs on a low sweep when an open level is known, and finds the departure', () => {
+    const { check } = run(1.3, 0.5, 6, true);
+    expect(check.checked).toBe(true);
+    expect(check.departs).toBe(true);
+    expect(Math.abs(check.gamma.value - 1.3)).toBeLessThan(3 * check.gamma.stdErr + 0.02);
   });
 
   it('is skipped, with its reason, when the sweep stays well below V_π and no open level is known', () => {
