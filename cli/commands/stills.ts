@@ -157,7 +157,10 @@ export function register(program: Command): void {
           label: o.label ?? basename(resolve(folder)),
           createdAt: new Date().toISOString(),
           tool: { name: 'kerrtrace', version: toolVersion(), ffmpegVersion: null, node: process.version },
-          inputs: { stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}) },
+          inputs: {
+            stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}),
+            ...(cameraProfile ? { cameraProfile: { path: cameraProfile.path, sha256: await sha256File(cameraProfile.path) } } : {}),
+          },
           options: {
             folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust: o.robust !== false,
             ...(o.volts !== undefined ? { voltsPath: o.volts } : {}),

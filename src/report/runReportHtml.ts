@@ -287,6 +287,7 @@ function inputRows(inputs: RunResult['inputs']): SafeHtml[] {
   if (inputs.volts) rows.push(['voltage log', inputs.volts]);
   if (inputs.openVideo) rows.push(['open-level video', inputs.openVideo]);
   if (inputs.baseline) rows.push(['baseline', inputs.baseline]);
+  if (inputs.cameraProfile) rows.push(['camera profile', inputs.cameraProfile]);
   (inputs.stills ?? []).forEach((f, i) => rows.push([`still ${i + 1}`, f]));
   return rows.map(([role, f]) => html`<tr><td>${role}</td><td class="wrap">${f.path}</td><td class="hash">${f.sha256}</td></tr>`);
 }

@@ -52,6 +52,7 @@ export function runSummaryMarkdown(r: RunResult): string {
   if (r.inputs.volts) inputs.push(['voltage log', r.inputs.volts]);
   if (r.inputs.openVideo) inputs.push(['open-level video', r.inputs.openVideo]);
   if (r.inputs.baseline) inputs.push(['baseline', r.inputs.baseline]);
+  if (r.inputs.cameraProfile) inputs.push(['camera profile', r.inputs.cameraProfile]);
   (r.inputs.stills ?? []).forEach((f, i) => inputs.push([`still ${i + 1}`, f]));
   lines.push('| input | path | SHA-256 |', '| --- | --- | --- |');
   for (const [role, f] of inputs) lines.push(`| ${role} | ${md(f.path)} | ${md(f.sha256)} |`);

@@ -49,7 +49,7 @@ export interface RunResult {
   /** "video" for analyze, "stills" for the photo-series command. */
   source: 'video' | 'stills';
   tool: { name: 'kerrtrace'; version: string; ffmpegVersion: string | null; node: string };
-  inputs: { video?: InputFile; volts?: InputFile; openVideo?: InputFile; stills?: InputFile[]; baseline?: InputFile };
+  inputs: { video?: InputFile; volts?: InputFile; openVideo?: InputFile; stills?: InputFile[]; baseline?: InputFile; cameraProfile?: InputFile };
   options: Record<string, unknown>;
   cell: {
     lengthM: number;
