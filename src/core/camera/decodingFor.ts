@@ -11,7 +11,8 @@
  *   BT.2100 HLG); smpte2084 → pq (SMPTE ST 2084); linear → linear; gamma22 → gamma:2.2;
  *   gamma28 → gamma:2.8; unknown (untagged) → srgb with a note (phones and webcams encode
  *   sRGB-like curves; common practice); any other tag (log, log_sqrt, smpte240m, smpte428...)
- *   → refused unless the user gives a transfer or a measured response.
+ *   → refused unless the user gives a transfer or a measured response. PQ comes with a note: its
+ *   peak (10000 cd/m²) lies far above a camera's full scale, so the clip code cannot flag clipping.
  * - matrix (color_space): bt709 → bt709; smpte170m, bt470bg, fcc → bt601; bt2020nc → bt2020
  *   (non-constant luminance, Kr = 0.2627, Kb = 0.0593); unknown → bt709 for frames 720 lines or
  *   taller, bt601 below (common practice for HD versus SD), with a note; others (bt2020c constant
@@ -126,6 +127,9 @@ export function decodingFor(info: DecodingMetadata, overrides: Partial<CameraDec
   }
 
   const clipCode = overrides.clipCode ?? DEFAULT_CLIP_CODE;
+  if (transfer === 'pq' && overrides.response === undefined) {
+    notes.push('the video uses PQ (SMPTE ST 2084), display light: the camera\'s full scale usually sits well below the PQ peak, so clipped highlights cannot be recognised from the code values; keep the spot well below clipping');
+  }
   const choice: DecodingChoice = { range, matrix, transfer, clipCode, notes };
   if (overrides.response !== undefined) choice.response = overrides.response;
   return choice;

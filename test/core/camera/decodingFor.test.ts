@@ -23,7 +23,9 @@ describe('decodingFor: decoding chosen from stream tags (ffprobe names)', () => 
   it('reads the HDR transfers from their tags: arib-std-b67 → hlg, smpte2084 → pq (ITU-R BT.2100; ffprobe names), and bt2020nc → the BT.2020 matrix', () => {
     const hlg = decodingFor({ ...tagged, colourTransfer: 'arib-std-b67', colourMatrix: 'bt2020nc' });
     expect(hlg).toMatchObject({ transfer: 'hlg', matrix: 'bt2020', notes: [] });
-    expect(decodingFor({ ...tagged, colourTransfer: 'smpte2084', colourMatrix: 'bt2020nc' }).transfer).toBe('pq');
+    const pq = decodingFor({ ...tagged, colourTransfer: 'smpte2084', colourMatrix: 'bt2020nc' });
+    expect(pq.transfer).toBe('pq');
+    expect(pq.notes.join(' ')).toMatch(/clipped highlights cannot be recognised/);
   });
 
   it('refuses a tagged transfer or matrix it cannot decode, in one line, instead of decoding it as something else', () => {
