@@ -8,6 +8,7 @@ import { isKerrError } from '../src/errors.js';
 const INPUT_CODES = new Set([
   'BAD_ARGUMENT', 'FILE_NOT_FOUND', 'FILE_EXISTS', 'NOT_A_VIDEO', 'TRUNCATED_MEDIA', 'BAD_REGION',
   'BAD_CSV', 'BAD_SCENARIO', 'NO_OVERLAP', 'NOT_IDENTIFIABLE', 'BAD_RESULT', 'UNSAFE',
+  'UNSUPPORTED_ENCODING', 'BAD_PROFILE',
 ]);
 
 export function reportError(err: unknown): number {

@@ -19,6 +19,8 @@ export type KerrErrorCode =
   | 'FIT_FAILED'
   | 'BAD_RESULT'
   | 'UNSAFE'
+  | 'UNSUPPORTED_ENCODING' // a colour encoding (transfer, matrix) that cannot be decoded faithfully
+  | 'BAD_PROFILE' // a camera response profile that is unreadable or does not fit the footage
   | 'INTERNAL';
 
 export interface KerrErrorFields {

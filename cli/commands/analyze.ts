@@ -1,6 +1,7 @@
 /**
  * `kerrtrace analyze VIDEO --volts CSV --length-mm L --gap-mm D [...]`: the main job.
  */
+import { parseTransfer as parseCoreTransfer } from '../../src/core/camera/transfer.js';
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { KerrError, invalid } from '../../src/errors.js';
@@ -18,11 +19,9 @@ export function parseNumber(text: string, option: string, what: string): number 
   return x;
 }
 
+/** The --transfer choice (srgb, bt709, hlg, pq, linear, gamma:G), parsed by the core's one parser. */
 export function parseTransfer(text: string): TransferName {
-  if (text === 'srgb' || text === 'bt709' || text === 'linear') return text;
-  const m = /^gamma:(\d+(?:\.\d+)?)$/.exec(text);
-  if (m && Number(m[1]) > 0) return `gamma:${Number(m[1])}`;
-  throw invalid('srgb, bt709, linear or gamma:G (e.g. gamma:2.2)', '--transfer', text);
+  return parseCoreTransfer(text, '--transfer');
 }
 
 function parseWindow(text: string): [number, number] {
@@ -35,7 +34,7 @@ export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
   offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
   polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
-  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string; wavelengthNm?: string;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string; wavelengthNm?: string; cameraProfile?: string;
 }
 
 export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
@@ -59,6 +58,7 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   if (c.openVideo !== undefined) o.openVideoPath = c.openVideo;
   if (c.openLevel !== undefined) o.openLevel = parseNumber(c.openLevel, '--open-level', 'a positive open level in linear units');
   if (c.transfer !== undefined) o.transfer = parseTransfer(c.transfer);
+  if (c.cameraProfile !== undefined) o.cameraProfilePath = c.cameraProfile;
   if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
   if (c.label !== undefined) o.label = c.label;
   if (c.wavelengthNm !== undefined) o.wavelengthNm = parseNumber(c.wavelengthNm, '--wavelength-nm', 'a wavelength in nm');
@@ -90,7 +90,8 @@ export function register(program: Command): void {
     .option('--effective-length-mm <LE>', 'effective length including fringe fields, mm (default: --length-mm)')
     .option('--polariser-angle-deg <A>', 'polariser angle to the field, degrees (default 45)')
     .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
-    .option('--transfer <name>', 'camera transfer: srgb, bt709, gamma:G or linear (default: from the video metadata)')
+    .option('--transfer <name>', 'camera transfer: srgb, bt709, hlg, pq, gamma:G or linear (default: from the video metadata)')
+    .option('--camera-profile <file>', 'camera response profile from `kerrtrace calibrate-camera`, used instead of the transfer curve')
     .option('--electrode-height-mm <H>', 'electrode height across the beam, mm (for resistivity)')
     .option('--label <text>', 'a name for this run in reports and comparisons')
     .option('--wavelength-nm <nm>', 'wavelength of the light, nm (recorded; compare warns when runs differ)')

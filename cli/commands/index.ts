@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { register as analyze } from './analyze.js';
+import { register as calibrateCamera } from './calibrateCamera.js';
 import { register as compare } from './compare.js';
 import { register as demo } from './demo.js';
 import { register as design } from './design.js';
@@ -18,4 +19,5 @@ export function registerCommands(program: Command): void {
   compare(program);
   stills(program);
   design(program);
+  calibrateCamera(program);
 }

@@ -5,6 +5,7 @@
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { decodingFor } from '../../src/core/camera/decodingFor.js';
+import { isKerrError } from '../../src/errors.js';
 import type { ProbeResult } from '../../src/media/probe.js';
 
 interface InspectCliOptions {
@@ -14,10 +15,20 @@ interface InspectCliOptions {
 const ms = (s: number): string => `${(s * 1000).toFixed(1)} ms`;
 const fps = (x: number | null): string => (x === null ? 'unknown' : `${Number(x.toFixed(3))} fps`);
 
+/** The decoding analyze would use, or why it would refuse the file (inspect shows, never refuses). */
+function decodingOrRefusal(info: ProbeResult['info']): ReturnType<typeof decodingFor> | { refused: string } {
+  try {
+    return decodingFor(info);
+  } catch (e) {
+    if (isKerrError(e) && e.code === 'UNSUPPORTED_ENCODING') return { refused: e.oneLine() };
+    throw e;
+  }
+}
+
 /** The human-readable report. */
 export function inspectText(probe: ProbeResult): string {
   const { info } = probe;
-  const decoding = decodingFor(info);
+  const chosen = decodingOrRefusal(info);
   const rows: Array<[string, string]> = [];
   rows.push(['file', info.path]);
   rows.push(['container', `${info.container}, codec ${info.codec}`]);
@@ -31,8 +42,9 @@ export function inspectText(probe: ProbeResult): string {
   rows.push(['frame times', probe.timeSource === 'pts' ? 'container presentation timestamps' : probe.timeSource === 'dts' ? 'container decoding timestamps' : 'nominal rate (no timestamps in the file)']);
   rows.push(['pixels', `${info.pixelFormat}, ${info.bitDepth}-bit`]);
   rows.push(['colour tags', `range ${info.colourRange}, transfer ${info.colourTransfer}, primaries ${info.colourPrimaries}, matrix ${info.colourMatrix}`]);
-  rows.push(['decoding', `${decoding.range} range, ${decoding.matrix} matrix, ${decoding.transfer} transfer, clipped at code ${decoding.clipCode}`]);
-  const notes = [...probe.notes, ...decoding.notes];
+  if ('refused' in chosen) rows.push(['decoding', `REFUSED: ${chosen.refused}`]);
+  else rows.push(['decoding', `${chosen.range} range, ${chosen.matrix} matrix, ${chosen.transfer} transfer, clipped at code ${chosen.clipCode}`]);
+  const notes = [...probe.notes, ...('refused' in chosen ? [] : chosen.notes)];
   const width = Math.max(...rows.map(([k]) => k.length));
   const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
   for (const n of notes) lines.push(`${'note'.padEnd(width)}  ${n}`);
@@ -41,7 +53,11 @@ export function inspectText(probe: ProbeResult): string {
 
 /** The --json report: the VideoInfo fields plus timing and decoding. */
 export function inspectJson(probe: ProbeResult): Record<string, unknown> {
-  const { notes: decodingNotes, ...decoding } = decodingFor(probe.info);
+  const chosen = decodingOrRefusal(probe.info);
+  if ('refused' in chosen) {
+    return { ...probe.info, frameIntervalS: probe.frameIntervalS, frameTimeSource: probe.timeSource, endsEarly: probe.endsEarly, decoding: null, decodingRefused: chosen.refused, notes: [...probe.notes] };
+  }
+  const { notes: decodingNotes, ...decoding } = chosen;
   return {
     ...probe.info,
     frameIntervalS: probe.frameIntervalS,

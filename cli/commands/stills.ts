@@ -36,6 +36,7 @@ interface StillsCliOptions {
   darkRoi?: string;
   referenceRoi?: string;
   transfer?: string;
+  cameraProfile?: string;
   openLevel?: string;
   openPhoto?: string;
   label?: string;
@@ -78,6 +79,7 @@ export function register(program: Command): void {
     .option('--polariser-angle-deg <deg>', 'polariser angle to the field, degrees, analyser crossed (default 45)')
     .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
     .option('--transfer <name>', 'srgb, bt709, linear or gamma:G (default: srgb for 8-bit and PNG, linear for 16-bit TIFF)')
+    .option('--camera-profile <file>', 'camera response profile from `kerrtrace calibrate-camera`, used instead of the transfer curve')
     .option('--label <text>', 'a name for this run in reports and comparisons (default: the folder name)')
     .option('--no-robust', 'plain least squares instead of Huber weighting')
     .option('--no-report', 'skip report.html, plots and summary.md')
@@ -129,6 +131,10 @@ export function register(program: Command): void {
         if (darkRoi) readOptions.darkRoi = darkRoi;
         if (referenceRoi) readOptions.referenceRoi = referenceRoi;
         if (transfer) readOptions.transfer = transfer;
+        if (transfer && o.cameraProfile !== undefined) throw new KerrError('BAD_ARGUMENT', 'give --transfer or --camera-profile, not both', { path: '--camera-profile', hint: 'A camera profile replaces the transfer curve' });
+        const { readCameraProfile } = await import('../../src/io/cameraProfile.js');
+        const cameraProfile = o.cameraProfile !== undefined ? { path: o.cameraProfile, profile: await readCameraProfile(o.cameraProfile) } : undefined;
+        if (cameraProfile) readOptions.response = cameraProfile.profile.response;
         if (o.openPhoto !== undefined) readOptions.openPhotoPath = o.openPhoto;
         const progress = makeProgress('reading photos', o.quiet === true || o.json === true);
         let series;
@@ -151,7 +157,10 @@ export function register(program: Command): void {
           label: o.label ?? basename(resolve(folder)),
           createdAt: new Date().toISOString(),
           tool: { name: 'kerrtrace', version: toolVersion(), ffmpegVersion: null, node: process.version },
-          inputs: { stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}) },
+          inputs: {
+            stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}),
+            ...(cameraProfile ? { cameraProfile: { path: cameraProfile.path, sha256: await sha256File(cameraProfile.path) } } : {}),
+          },
           options: {
             folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust: o.robust !== false,
             ...(o.volts !== undefined ? { voltsPath: o.volts } : {}),
@@ -166,6 +175,13 @@ export function register(program: Command): void {
           },
         });
         const { result, trace } = run;
+        const { stillsCameraResponse } = await import('../../src/stills/stillsCameraResponse.js');
+        const response = stillsCameraResponse(result, trace, {
+          transfer: series.transfers[0] ?? 'srgb', transferFromOption: transfer !== undefined, ...(cameraProfile ? { profile: cameraProfile } : {}),
+        }, amplitude);
+        result.cameraResponse = response.record;
+        result.warnings.push(...response.warnings);
+        if (cameraProfile) result.options.cameraProfile = cameraProfile.path;
 
         // regions.png is a convenience: a photo that will not decode again only costs the picture.
         let regionsPng: Buffer | undefined;

@@ -6,6 +6,8 @@
  * (⌊x/2⌋, ⌊y/2⌋)).
  *
  * Per pixel: range expansion, YUV→R'G'B' matrix and linearisation as in core/camera/yuvToLinear.
+ * Frames of more than 8 bits (Frame.bitDepth, 16-bit little-endian words) are read at full
+ * precision through a Uint16Array view; the meter must be made for the same bit depth.
  * Means include clipped pixels (so they stay comparable frame to frame); `clippedFraction` says how
  * many there were (a pixel is clipped when any channel's code is at or above the clip code), and
  * the caller decides whether to exclude the frame. The mean gamma-encoded code values (0..255,
@@ -50,10 +52,12 @@ export function createRegionMeter(
    * the rings around a beam, 2 halves the work; the mean stays unbiased where the light varies
    * slowly, and pixelCount then counts the pixels read. */
   rowStrides?: readonly number[],
+  /** Bits per sample of the frames (8 default; 10, 12 or 16 for 16-bit words). */
+  bitDepth = 8,
 ): RegionMeter {
   const checked = regions.map((r, i) => ({ ...validateRect(r, frameWidth, frameHeight, `region ${i + 1}`) }));
-  const tables = yuvTables(decoding);
-  const { yCode, rFromV, gFromU, gFromV, bFromU, linear, clipThreshold } = tables;
+  const tables = yuvTables(decoding, bitDepth);
+  const { yCode, rFromV, gFromU, gFromV, bFromU, linear, clipThreshold, perCode } = tables;
   const chromaWidth = (frameWidth + 1) >> 1;
   const chromaHeight = (frameHeight + 1) >> 1;
   const uOffset = frameWidth * frameHeight;
@@ -76,6 +80,7 @@ export function createRegionMeter(
     rowSums[3] += r;
     rowSums[4] += g;
     rowSums[5] += b;
+    if (perCode !== 1) { r *= perCode; g *= perCode; b *= perCode; }
     let i = r | 0;
     let lo = linear[i]!;
     rowSums[0] += lo + (r - i) * (linear[i + 1]! - lo);
@@ -88,14 +93,14 @@ export function createRegionMeter(
   }
 
   /** Adds the pixel at column `col` of a row, looking up its own chroma (odd edges of a region). */
-  function addSingle(data: Uint8Array, lumaRow: number, chromaRow: number, col: number): void {
+  function addSingle(data: Uint8Array | Uint16Array, lumaRow: number, chromaRow: number, col: number): void {
     const chromaIndex = chromaRow + (col >> 1);
     const u = data[uOffset + chromaIndex]!;
     const v = data[vOffset + chromaIndex]!;
     addPixel(yCode[data[lumaRow + col]!]!, rFromV[v]!, gFromU[u]! + gFromV[v]!, bFromU[u]!);
   }
 
-  function measureOne(data: Uint8Array, rect: Rect, stride: number): RegionMeasurement {
+  function measureOne(data: Uint8Array | Uint16Array, rect: Rect, stride: number): RegionMeasurement {
     regionSums.fill(0);
     const x1 = rect.x + rect.w;
     const y1 = rect.y + rect.h;
@@ -133,11 +138,14 @@ export function createRegionMeter(
   return {
     regions: checked,
     measure(frame: Frame): RegionMeasurement[] {
-      if (frame.width !== frameWidth || frame.height !== frameHeight || frame.data.length < frameBytes) {
+      const depth = frame.bitDepth ?? 8;
+      const samples = depth > 8 ? new Uint16Array(frame.data.buffer, frame.data.byteOffset, frame.data.length >> 1) : frame.data;
+      if (frame.width !== frameWidth || frame.height !== frameHeight || samples.length < frameBytes) {
         throw new KerrError('INTERNAL',
           `region meter made for ${frameWidth}x${frameHeight} frames was given a ${frame.width}x${frame.height} frame`);
       }
-      return checked.map((rect, i) => measureOne(frame.data, rect, rowStrides?.[i] ?? 1));
+      if ((depth > 8) !== (bitDepth > 8)) throw new KerrError('INTERNAL', `region meter made for ${bitDepth}-bit samples was given a ${depth}-bit frame`);
+      return checked.map((rect, i) => measureOne(samples, rect, rowStrides?.[i] ?? 1));
     },
   };
 }

@@ -4,6 +4,8 @@
  * full-resolution crop of each region, each on its own pipe. Only a few hundred kilobytes per
  * frame reach Node instead of the whole picture, so the pass costs little more than decoding.
  *
+ * The overview is 8-bit whatever the source (it only finds the beam, flashes and maps); the
+ * region crops of a deeper source come as 16-bit words at full precision (see rawPixelFormat).
  * The overview averages code values (gamma-encoded Y′, U, V) within each block; linearising the
  * average is not the same as averaging linear light where a block is not uniform (the edge of a
  * small bright spot). The overview serves to find the beam, detect flashes and draw the
@@ -11,9 +13,9 @@
  * Buffers are REUSED from one frame to the next.
  */
 import { validateRect } from '../measure/rect.js';
-import { alignCrop, expectedFrameCount, rawPixelFormat } from './frameStream.js';
+import { alignCrop, expectedFrameCount, rawPixelFormat, rawPixelFormat8 } from './frameStream.js';
 import type { ProbeResult } from './probe.js';
-import { runRawPipes, type RawPipesPlan } from './rawVideoPipes.js';
+import { rawBitDepth, runRawPipes, type RawPipesPlan } from './rawVideoPipes.js';
 import type { Frame, Rect } from './types.js';
 
 export interface AnalysisFrames {
@@ -39,6 +41,8 @@ export interface AnalysisStream {
   /** The aligned crop of each region, and each region's place inside its crop. */
   crops: Rect[];
   offsets: Rect[];
+  /** Bits per sample of the region crops (8, or 10/12/16 as 16-bit words); the overview is always 8-bit. */
+  regionBitDepth: number;
 }
 
 export function openAnalysisStream(probe: ProbeResult, regions: readonly Rect[], opts: AnalysisStreamOptions = {}): AnalysisStream {
@@ -54,6 +58,7 @@ export function openAnalysisStream(probe: ProbeResult, regions: readonly Rect[],
       filter: `crop=${gridWidth * step}:${gridHeight * step}:0:0,scale=${gridWidth}:${gridHeight}:flags=area`,
       width: gridWidth,
       height: gridHeight,
+      pixelFormat: rawPixelFormat8(probe),
     });
   }
   for (const c of crops) outputs.push({ filter: c.w === width && c.h === height ? '' : `crop=${c.w}:${c.h}:${c.x}:${c.y}`, width: c.w, height: c.h });
@@ -63,6 +68,7 @@ export function openAnalysisStream(probe: ProbeResult, regions: readonly Rect[],
   if (opts.onProgress) pipeOptions.onProgress = opts.onProgress;
   if (opts.signal) pipeOptions.signal = opts.signal;
   const run = runRawPipes(plan, pipeOptions);
+  const regionBitDepth = rawBitDepth(plan.pixelFormat);
   const first = step ? 1 : 0;
   async function* frames(): AsyncGenerator<AnalysisFrames, void, undefined> {
     for await (const set of run.frames) {
@@ -70,9 +76,9 @@ export function openAnalysisStream(probe: ProbeResult, regions: readonly Rect[],
         index: set.index,
         timeS: set.timeS,
         overview: step ? { index: set.index, timeS: set.timeS, width: gridWidth, height: gridHeight, data: set.buffers[0]! } : null,
-        regions: crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[first + k]! })),
+        regions: crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[first + k]!, bitDepth: regionBitDepth })),
       };
     }
   }
-  return { frames: frames(), gridWidth, gridHeight, crops, offsets };
+  return { frames: frames(), gridWidth, gridHeight, crops, offsets, regionBitDepth };
 }

@@ -34,7 +34,7 @@ import { invalid } from '../errors.js';
 import { validateRect } from '../measure/rect.js';
 import type { ProbeResult } from './probe.js';
 import { plannedStream, type PlannedStream } from './plannedStream.js';
-import { yuv420FrameBytes, type RawPipesPlan } from './rawVideoPipes.js';
+import { rawBitDepth, yuv420FrameBytes, type RawPipesPlan, type RawPixelFormat } from './rawVideoPipes.js';
 import type { Frame, Rect } from './types.js';
 
 export { yuv420FrameBytes, type ChildExit } from './rawVideoPipes.js';
@@ -61,7 +61,9 @@ export interface FrameStreamLayout {
   height: number;
   frameBytes: number;
   expectedFrames: number;
-  pixelFormat: 'yuv420p' | 'yuvj420p';
+  pixelFormat: RawPixelFormat;
+  /** Bits per sample of the delivered frames (8, or 10/12/16 as 16-bit words). */
+  bitDepth: number;
 }
 
 export type FrameStream = PlannedStream<FrameStreamLayout, Frame>;
@@ -75,8 +77,20 @@ export function alignCrop(rect: Rect, frameWidth: number, frameHeight: number): 
   return { x, y, w: right - x, h: bottom - y };
 }
 
-/** Output pixel format: yuvj420p for full-range JPEG-style sources (no range conversion), else yuv420p. */
-export function rawPixelFormat(probe: ProbeResult): 'yuv420p' | 'yuvj420p' {
+/**
+ * Output pixel format: for sources deeper than 8 bits (probe bitDepth, e.g. yuv420p10le, p010le,
+ * HEVC Main 10), the planar 16-bit little-endian format of the same depth (yuv420p10le or
+ * yuv420p12le; yuv420p16le above 12), so no bit is lost and ffmpeg only repacks or subsamples;
+ * otherwise yuvj420p for full-range JPEG-style sources (no range conversion), else yuv420p.
+ */
+export function rawPixelFormat(probe: ProbeResult): RawPixelFormat {
+  const depth = probe.info.bitDepth;
+  if (depth > 8) return depth <= 10 ? 'yuv420p10le' : depth <= 12 ? 'yuv420p12le' : 'yuv420p16le';
+  return probe.info.pixelFormat.startsWith('yuvj') ? 'yuvj420p' : 'yuv420p';
+}
+
+/** The 8-bit format for pictures that need no precision (overviews): yuvj420p for full range, else yuv420p. */
+export function rawPixelFormat8(probe: ProbeResult): RawPixelFormat {
   return probe.info.pixelFormat.startsWith('yuvj') ? 'yuvj420p' : 'yuv420p';
 }
 
@@ -111,11 +125,13 @@ function planLayout(probe: ProbeResult, opts: FrameStreamOptions): { layout: Fra
   const pixelFormat = rawPixelFormat(probe);
   const plan: RawPipesPlan = { probe, outputs: [{ filter: filters.join(','), width, height }], expectedFrames, pixelFormat };
   if (opts.maxFrames !== undefined) plan.maxFrames = opts.maxFrames;
-  return { layout: { probe, crop, width, height, frameBytes: yuv420FrameBytes(width, height), expectedFrames, pixelFormat }, plan };
+  const bitDepth = rawBitDepth(pixelFormat);
+  const frameBytes = (bitDepth > 8 ? 2 : 1) * yuv420FrameBytes(width, height);
+  return { layout: { probe, crop, width, height, frameBytes, expectedFrames, pixelFormat, bitDepth }, plan };
 }
 
 export function openFrameStream(path: string, opts: FrameStreamOptions = {}): FrameStream {
   return plannedStream(path, opts, (probe) => planLayout(probe, opts),
-    (set, layout): Frame => ({ index: set.index, timeS: set.timeS, width: layout.width, height: layout.height, data: set.buffers[0]! }),
+    (set, layout): Frame => ({ index: set.index, timeS: set.timeS, width: layout.width, height: layout.height, data: set.buffers[0]!, bitDepth: layout.bitDepth }),
     'frame stream');
 }

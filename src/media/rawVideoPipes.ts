@@ -1,6 +1,7 @@
 /**
  * The engine under the frame and region streams: runs one ffmpeg that decodes a video once and
- * writes one or more raw planar YUV 4:2:0 outputs (the whole picture, or crops of it) to pipes,
+ * writes one or more raw planar YUV 4:2:0 outputs (8-bit, or 16-bit little-endian words for
+ * sources deeper than 8 bits, so a 10-bit clip keeps every bit) (the whole picture, or crops of it) to pipes,
  * and yields, frame by frame, one filled buffer per output with the frame's index and
  * presentation time.
  *
@@ -30,11 +31,22 @@ export function yuv420FrameBytes(width: number, height: number): number {
   return width * height + 2 * ((width + 1) >> 1) * ((height + 1) >> 1);
 }
 
+/** Raw planar 4:2:0 formats we ask ffmpeg for: 8-bit, or 16-bit little-endian words for deeper sources. */
+export type RawPixelFormat = 'yuv420p' | 'yuvj420p' | 'yuv420p10le' | 'yuv420p12le' | 'yuv420p16le';
+
+/** Bits per sample of a raw format (8 for the byte formats). */
+export function rawBitDepth(format: RawPixelFormat): number {
+  const m = /p(\d+)le$/.exec(format);
+  return m ? Number(m[1]) : 8;
+}
+
 export interface RawOutput {
   /** Filter chain applied to the decoded (and auto-rotated) picture, e.g. "crop=40:30:20:10"; '' for none. */
   filter: string;
   width: number;
   height: number;
+  /** This output's format when it differs from the plan's (e.g. an 8-bit overview of a 10-bit clip). */
+  pixelFormat?: RawPixelFormat;
 }
 
 export interface RawPipesPlan {
@@ -42,7 +54,7 @@ export interface RawPipesPlan {
   outputs: RawOutput[];
   maxFrames?: number;
   expectedFrames: number;
-  pixelFormat: 'yuv420p' | 'yuvj420p';
+  pixelFormat: RawPixelFormat;
 }
 
 export interface ChildExit {
@@ -75,18 +87,18 @@ export function rawPipesArgs(plan: RawPipesPlan): string[] {
   const { probe, outputs } = plan;
   const args = ['-hide_banner', '-nostdin', '-nostats', '-v', 'error', '-i', ffmpegInput(probe.info.path)];
   const frameLimit = plan.maxFrames !== undefined ? ['-frames:v', String(plan.maxFrames)] : [];
-  const tail = (fd: number): string[] => [...frameLimit, '-f', 'rawvideo', '-pix_fmt', plan.pixelFormat, `pipe:${fd}`];
+  const tail = (fd: number, format: RawPixelFormat): string[] => [...frameLimit, '-f', 'rawvideo', '-pix_fmt', format, `pipe:${fd}`];
   if (outputs.length === 1) {
     args.push('-map', `0:${probe.streamIndex}`, '-an', '-sn', '-dn', '-vsync', '0');
     if (outputs[0]!.filter) args.push('-vf', outputs[0]!.filter);
-    args.push(...tail(1));
+    args.push(...tail(1, outputs[0]!.pixelFormat ?? plan.pixelFormat));
     return args;
   }
   const labels = outputs.map((_o, k) => `s${k}`);
   const graph = [`[0:${probe.streamIndex}]split=${outputs.length}${labels.map((l) => `[${l}]`).join('')}`];
   outputs.forEach((o, k) => graph.push(`[s${k}]${o.filter || 'null'}[o${k}]`));
   args.push('-filter_complex', graph.join(';'), '-vsync', '0');
-  outputs.forEach((_o, k) => args.push('-map', `[o${k}]`, ...tail(k === 0 ? 1 : k + 2)));
+  outputs.forEach((o, k) => args.push('-map', `[o${k}]`, ...tail(k === 0 ? 1 : k + 2, o.pixelFormat ?? plan.pixelFormat)));
   return args;
 }
 
@@ -149,7 +161,10 @@ export function runRawPipes(plan: RawPipesPlan, opts: { onProgress?: (done: numb
   opts.signal?.addEventListener('abort', onAbort, { once: true });
 
   const pipes = plan.outputs.map((_o, k) => child.stdio[k === 0 ? 1 : k + 2] as Readable);
-  const readers = plan.outputs.map((o, k) => new PipeFrameReader(pipes[k]!, new Uint8Array(yuv420FrameBytes(o.width, o.height))));
+  const readers = plan.outputs.map((o, k) => {
+    const bytesPerSample = rawBitDepth(o.pixelFormat ?? plan.pixelFormat) > 8 ? 2 : 1;
+    return new PipeFrameReader(pipes[k]!, new Uint8Array(bytesPerSample * yuv420FrameBytes(o.width, o.height)));
+  });
   const buffers = readers.map((r) => r.buffer);
   const times = plan.probe.frameTimesS;
   const medianIntervalS = plan.probe.frameIntervalS?.median ?? 0;

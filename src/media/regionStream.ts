@@ -21,7 +21,7 @@ import { validateRect } from '../measure/rect.js';
 import { alignCrop, expectedFrameCount, rawPixelFormat } from './frameStream.js';
 import type { ProbeResult } from './probe.js';
 import { plannedStream, type PlannedStream } from './plannedStream.js';
-import type { RawPipesPlan } from './rawVideoPipes.js';
+import { rawBitDepth, type RawPipesPlan } from './rawVideoPipes.js';
 import type { Frame, Rect } from './types.js';
 
 export interface RegionFrames {
@@ -45,6 +45,8 @@ export interface RegionStreamLayout {
   /** Each asked-for region relative to its crop (x, y inside the crop; same w, h). */
   offsets: Rect[];
   expectedFrames: number;
+  /** Bits per sample of the delivered frames (8, or 10/12/16 as 16-bit words). */
+  bitDepth: number;
 }
 
 export type RegionStream = PlannedStream<RegionStreamLayout, RegionFrames>;
@@ -66,7 +68,7 @@ function planRegions(probe: ProbeResult, regions: readonly Rect[], opts: RegionS
     pixelFormat: rawPixelFormat(probe),
   };
   if (opts.maxFrames !== undefined) plan.maxFrames = opts.maxFrames;
-  return { layout: { probe, crops, offsets, expectedFrames }, plan };
+  return { layout: { probe, crops, offsets, expectedFrames, bitDepth: rawBitDepth(plan.pixelFormat) }, plan };
 }
 
 export function openRegionStream(path: string, regions: readonly Rect[], opts: RegionStreamOptions = {}): RegionStream {
@@ -74,7 +76,7 @@ export function openRegionStream(path: string, regions: readonly Rect[], opts: R
     (set, layout): RegionFrames => ({
       index: set.index,
       timeS: set.timeS,
-      regions: layout.crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[k]! })),
+      regions: layout.crops.map((c, k): Frame => ({ index: set.index, timeS: set.timeS, width: c.w, height: c.h, data: set.buffers[k]!, bitDepth: layout.bitDepth })),
     }),
     'region stream');
 }

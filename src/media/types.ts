@@ -11,9 +11,9 @@ export interface Rect {
   h: number;
 }
 
-export type TransferName = 'srgb' | 'bt709' | 'linear' | `gamma:${number}`;
+export type TransferName = 'srgb' | 'bt709' | 'linear' | 'hlg' | 'pq' | `gamma:${number}`;
 export type ColourRange = 'limited' | 'full';
-export type YuvMatrix = 'bt709' | 'bt601';
+export type YuvMatrix = 'bt709' | 'bt601' | 'bt2020';
 
 /** What `probeVideo` learns about a file (the `inspect` command prints it). */
 export interface VideoInfo {
@@ -53,6 +53,12 @@ export interface Frame {
   height: number;
   /** Y plane (width*height), then U and V planes (ceil(w/2)*ceil(h/2) each). */
   data: Uint8Array;
+  /**
+   * Bits per sample; absent or 8: one byte per sample. Above 8 (10-, 12- or 16-bit sources), each
+   * sample is a 16-bit little-endian word in `data` (read it through a Uint16Array view), value
+   * range 0..2^bitDepth − 1, so `data` holds twice as many bytes.
+   */
+  bitDepth?: number;
 }
 
 /** How code values become linear light: range expansion, YUV matrix, transfer inversion. */
@@ -62,6 +68,20 @@ export interface CameraDecoding {
   transfer: TransferName;
   /** A code value (0-255, after range expansion, any R/G/B channel) at or above this counts as clipped. */
   clipCode: number;
+  /**
+   * A measured camera response (from a camera profile, see src/core/camera/responseTable.ts): when
+   * present it replaces the transfer curve; `transfer` then only records what the tags said.
+   */
+  response?: ResponseTable;
+}
+
+/**
+ * A camera response as a monotone table: R'G'B' code value (0..255 scale, after range expansion and
+ * matrix) → relative linear light. Linear between entries, extended linearly beyond the ends.
+ */
+export interface ResponseTable {
+  code: number[];
+  linear: number[];
 }
 
 /** Per-frame measurement of one region (linear units: 1.0 = full-scale white). */

@@ -16,6 +16,10 @@ import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/typ
 import { probeMedia, type ProbeResult } from '../media/probe.js';
 import { openAnalysisStream } from '../media/analysisStream.js';
 import { decodingFor } from '../core/camera/decodingFor.js';
+import { decodingWarnings } from './decodingWarnings.js';
+import { cameraResponseRecord } from './cameraResponseRecord.js';
+import { checkCameraResponse } from '../core/fit/checkCameraResponse.js';
+import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
 import { createRegionMeter } from '../measure/regionMeter.js';
 import { createGridSampler } from '../measure/gridSampler.js';
 import { validateRect } from '../measure/rect.js';
@@ -61,6 +65,8 @@ export interface AnalyzeOptions {
   wavelengthNm?: number;
   /** 'rgb': also fit the red, green and blue channels separately (white-light sources). */
   channels?: 'rgb';
+  /** A camera response profile (kerrtrace calibrate-camera) to use instead of the transfer curve. */
+  cameraProfilePath?: string;
 }
 
 export interface AnalyzeHooks {
@@ -125,6 +131,10 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
   if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
+  if (o.cameraProfilePath !== undefined) {
+    if (o.transfer !== undefined) throw new KerrError('BAD_ARGUMENT', 'give --transfer or --camera-profile, not both', { hint: 'A camera profile replaces the transfer curve' });
+    if (!existsSync(o.cameraProfilePath)) throw new KerrError('FILE_NOT_FOUND', `${o.cameraProfilePath} does not exist`, { path: '--camera-profile', hint: 'Check the path of the camera profile' });
+  }
 }
 
 /** Default output folder: beside the video, "<name>.kerrtrace". */
@@ -208,7 +218,7 @@ async function decodePass(path: string, probe: ProbeResult, decoding: CameraDeco
     const { pieces, ringOf } = nestedPieces(local);
     // Rings (pieces outside the innermost region) hold slowly varying background: every other row.
     const strides = ringOf.map((k) => (k > 0 ? 2 : 1));
-    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
+    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
   });
   const acc = new Float64Array(5);
   const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
@@ -262,9 +272,12 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const warn = (code: string, message: string, guideSection?: string) => {
     warnings.push(guideSection ? { code, message, guideSection } : { code, message });
   };
+  const cameraProfile = o.cameraProfilePath !== undefined ? { path: o.cameraProfilePath, profile: await readCameraProfile(o.cameraProfilePath) } : undefined;
+  const decodingOverrides: Partial<CameraDecoding> = { ...(o.transfer ? { transfer: o.transfer } : {}), ...(cameraProfile ? { response: cameraProfile.profile.response } : {}) };
   const probe = await probeMedia(o.videoPath);
   const info = probe.info;
-  const decoding = decodingFor(info, o.transfer ? { transfer: o.transfer } : {});
+  const decoding = decodingFor(info, decodingOverrides);
+  warnings.push(...decodingWarnings(probe.notes, decoding.notes));
   for (const [r, opt] of [[o.roi, '--roi'], [o.darkRoi, '--dark-roi'], [o.referenceRoi, '--reference-roi']] as const) {
     if (r) validateRect(r, info.width, info.height, opt);
   }
@@ -468,7 +481,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     if (o.darkRoi) openRegions.push(o.darkRoi);
     else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
     const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
-    const openPass = await decodePass(o.openVideoPath, openProbe, decodingFor(openInfo, o.transfer ? { transfer: o.transfer } : {}), openRegions, null);
+    const openPass = await decodePass(o.openVideoPath, openProbe, decodingFor(openInfo, decodingOverrides), openRegions, null);
     const vals: number[] = [];
     for (let f = 0; f < openPass.frames; f++) {
       let bg = 0;
@@ -517,6 +530,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround,
     excluded: excluded.slice(), events: events.slice(), warnings: warnings.slice(),
     ...(channelIntensity ? { channelIntensity } : {}),
+    ...(cameraProfile ? { cameraProfile } : {}),
   };
 }
 
@@ -551,6 +565,8 @@ export interface MeasuredRun {
   warnings: RunWarning[];
   /** Beam minus surround per colour channel, exposure-corrected (only with channels: 'rgb'). */
   channelIntensity?: { r: Float64Array; g: Float64Array; b: Float64Array };
+  /** The camera profile used instead of the transfer curve, with its path. */
+  cameraProfile?: { path: string; profile: CameraProfile };
 }
 
 /**
@@ -660,6 +676,20 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   const disagreement = linearisedDisagreement(linearised, fit.kerrConstant, fit.identifiable);
   if (disagreement !== null) warn('linearised-disagrees', disagreement);
 
+  // ---- the camera response, checked against the physics (docs/camera-response.md) ----
+  const response = cameraResponseRecord({
+    decoding, bitDepth: info.bitDepth, transferFromOption: o.transfer !== undefined,
+    ...(m.cameraProfile ? { profile: m.cameraProfile } : {}),
+    check: checkCameraResponse({
+      voltageV: vUsed, intensity: iUsed, used: Uint8Array.from(fit.outliers, (x) => 1 - x),
+      fit: { floor: floor.value, amplitude: amp.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
+      polariserAngleDeg, ...(o.staticRetardanceRad !== undefined ? { staticRetardanceRad: o.staticRetardanceRad } : {}),
+      ...(openLevel !== undefined ? { openLevel } : {}),
+      effectiveLengthM, gapM, kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+    }),
+  });
+  warnings.push(...response.warnings);
+
   // ---- per-channel fits ----
   let channels: RunResult['channels'];
   if (m.channelIntensity) {
@@ -748,6 +778,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     log: { rows: log.rows, spanS: log.timeS[log.rows - 1]! - log.timeS[0]!, currentColumn: log.currentA !== null, temperatureC: temperature },
     warnings: [...log.warnings.map((message) => ({ code: 'voltage-log', message })), ...warnings],
     ...(channels ? { channels } : {}),
+    cameraResponse: response.record,
     files: {},
   };
   return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding, gain: m.gain, log, measured: m };

@@ -16,10 +16,11 @@ export interface FinishOptions {
 }
 
 export async function finishRun(out: AnalyzeOutput, f: FinishOptions): Promise<string> {
-  const o = out.result.options as { videoPath: string; voltsPath: string; openVideoPath?: string };
+  const o = out.result.options as { videoPath: string; voltsPath: string; openVideoPath?: string; cameraProfilePath?: string };
   out.result.inputs.video = { path: o.videoPath, sha256: await sha256File(o.videoPath) };
   out.result.inputs.volts = { path: o.voltsPath, sha256: await sha256File(o.voltsPath) };
   if (o.openVideoPath) out.result.inputs.openVideo = { path: o.openVideoPath, sha256: await sha256File(o.openVideoPath) };
+  if (o.cameraProfilePath) out.result.inputs.cameraProfile = { path: o.cameraProfilePath, sha256: await sha256File(o.cameraProfilePath) };
   return writeRunDir(f.outDir, f.force, {
     result: out.result,
     trace: out.trace,

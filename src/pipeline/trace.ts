@@ -146,15 +146,15 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
   let crops: Rect[];
   let streamNotes: readonly string[];
   if (opts.cropToRegions === false) {
-    const meter = createRegionMeter(info.width, info.height, all, decoding);
     const stream = openFrameStream(path, common);
+    const meter = createRegionMeter(info.width, info.height, all, decoding, undefined, (await stream.layout()).bitDepth);
     for await (const frame of stream) record(frame.timeS, meter.measure(frame));
     crops = [{ x: 0, y: 0, w: info.width, h: info.height }];
     streamNotes = stream.notes;
   } else {
     const stream = openRegionStream(path, all, common);
     const layout = await stream.layout();
-    const meters = layout.crops.map((c, k) => createRegionMeter(c.w, c.h, [layout.offsets[k]!], decoding));
+    const meters = layout.crops.map((c, k) => createRegionMeter(c.w, c.h, [layout.offsets[k]!], decoding, undefined, layout.bitDepth));
     const samples: RegionMeasurement[] = new Array<RegionMeasurement>(all.length);
     for await (const set of stream) {
       for (let k = 0; k < meters.length; k++) samples[k] = meters[k]!.measure(set.regions[k]!)[0]!;

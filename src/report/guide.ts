@@ -21,7 +21,9 @@ export type GuideAnchor =
   | 'temperature'
   | 'camera-still'
   | 'sync'
-  | 'safety';
+  | 'safety'
+  | 'lock-camera'
+  | 'calibrate-camera';
 
 /** Path of the guide inside the installed package, relative to the package root. */
 export const GUIDE_FILE = 'docs/recording-a-run.md';
@@ -31,6 +33,16 @@ export const GUIDE_SECTIONS: readonly GuideSection[] = [
     anchor: 'lock-exposure',
     title: 'Lock exposure and white balance',
     advice: 'Lock exposure, focus and white balance before recording, or keep a constant reference card in view so brightness changes can be corrected.',
+  },
+  {
+    anchor: 'lock-camera',
+    title: 'Lock the camera\'s picture processing',
+    advice: 'Turn HDR off, lock exposure and white balance, and use a pro or manual mode where the phone has one, so the code values follow a known curve.',
+  },
+  {
+    anchor: 'calibrate-camera',
+    title: 'Record a calibration once per camera and setting',
+    advice: 'Film the beam while turning the analyser through known angles and run `kerrtrace calibrate-camera`; pass the profile to analyze with --camera-profile.',
   },
   {
     anchor: 'avoid-clipping',

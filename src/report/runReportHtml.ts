@@ -12,6 +12,7 @@
  * drawn, and no frame rate.
  * @example runReportHtml({ result, plots, images: {}, hrefFor: (a) => `guide.md#${a}` }) starts with "<!DOCTYPE html>"
  */
+import { cameraResponseText } from './cameraResponseText.js';
 import { formatNumber, type Quantity } from '../quantity.js';
 import type { InputFile, RunResult } from '../result/schema.js';
 import { figure, formatFigure, type FigureDefinition } from './figureCatalogue.js';
@@ -286,6 +287,7 @@ function inputRows(inputs: RunResult['inputs']): SafeHtml[] {
   if (inputs.volts) rows.push(['voltage log', inputs.volts]);
   if (inputs.openVideo) rows.push(['open-level video', inputs.openVideo]);
   if (inputs.baseline) rows.push(['baseline', inputs.baseline]);
+  if (inputs.cameraProfile) rows.push(['camera profile', inputs.cameraProfile]);
   (inputs.stills ?? []).forEach((f, i) => rows.push([`still ${i + 1}`, f]));
   return rows.map(([role, f]) => html`<tr><td>${role}</td><td class="wrap">${f.path}</td><td class="hash">${f.sha256}</td></tr>`);
 }
@@ -297,6 +299,12 @@ function optionText(v: unknown): string {
   } catch {
     return String(v);
   }
+}
+
+function cameraResponseRows(r: RunResult): SafeHtml | null {
+  const t = cameraResponseText(r.cameraResponse);
+  return t === null ? null : html`<tr><th>Response used</th><td class="wrap">${t.used}</td></tr>
+<tr><th>Response check</th><td class="wrap">${t.check}</td></tr>`;
 }
 
 function provenanceSection(r: RunResult): SafeHtml {
@@ -318,7 +326,8 @@ function provenanceSection(r: RunResult): SafeHtml {
 <h3>Camera</h3><table class="kv">
 <tr><th>${stills ? 'Photo size' : 'Frame size'}</th><td>${r.camera.width} × ${r.camera.height} px</td></tr>
 ${stills ? null : html`<tr><th>Frame rate</th><td>${r.camera.fps === null ? 'unknown' : `${formatMeasured(r.camera.fps)} fps`}${r.camera.variableFrameRate ? ' (variable)' : ''}</td></tr>`}
-<tr><th>Transfer / range</th><td>${r.camera.transfer} / ${r.camera.range}</td></tr></table>
+<tr><th>Transfer / range</th><td>${r.camera.transfer} / ${r.camera.range}</td></tr>
+${cameraResponseRows(r)}</table>
 ${stills
     ? html`<h3>Voltages</h3><table class="kv">
 <tr><th>Photos with a voltage</th><td>${r.log.rows}</td></tr>

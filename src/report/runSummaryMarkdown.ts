@@ -6,6 +6,7 @@
  * voltages came from and shows no sync offset. Pure; never throws.
  * @example runSummaryMarkdown(result).startsWith('# ') === true
  */
+import { cameraResponseText } from './cameraResponseText.js';
 import { formatNumber } from '../quantity.js';
 import type { InputFile, RunResult } from '../result/schema.js';
 import { SAFETY_DEFERENCE } from '../safety/cautions.js';
@@ -37,6 +38,8 @@ export function runSummaryMarkdown(r: RunResult): string {
     lines.push(`Voltages: each photo carries its own (from ${from}), so there is no clock to synchronise. Photos ordered ${r.options.timeBasis === 'exif-capture-time' ? 'by capture time (time axis: seconds after the first photo)' : 'by file name (time axis: photo order)'}.`, '');
   }
   lines.push(`${words.many === 'photos' ? 'Photos' : 'Frames'}: ${r.frames.used} of ${r.frames.total} used${Object.keys(r.frames.excluded).length > 0 ? `; left out: ${Object.entries(r.frames.excluded).map(([k, n]) => `${md(k)} ${n}`).join(', ')}` : ''}. Fit ${r.fit.converged ? 'converged' : 'did NOT converge'} (${md(r.fit.reason)}).`, '');
+  const response = cameraResponseText(r.cameraResponse);
+  if (response) lines.push(`Camera response: ${md(response.used)}; ${md(response.check)}.`, '');
   lines.push('## Warnings', '');
   if (r.warnings.length === 0) lines.push('None.');
   for (const w of r.warnings) {
@@ -49,6 +52,7 @@ export function runSummaryMarkdown(r: RunResult): string {
   if (r.inputs.volts) inputs.push(['voltage log', r.inputs.volts]);
   if (r.inputs.openVideo) inputs.push(['open-level video', r.inputs.openVideo]);
   if (r.inputs.baseline) inputs.push(['baseline', r.inputs.baseline]);
+  if (r.inputs.cameraProfile) inputs.push(['camera profile', r.inputs.cameraProfile]);
   (r.inputs.stills ?? []).forEach((f, i) => inputs.push([`still ${i + 1}`, f]));
   lines.push('| input | path | SHA-256 |', '| --- | --- | --- |');
   for (const [role, f] of inputs) lines.push(`| ${role} | ${md(f.path)} | ${md(f.sha256)} |`);

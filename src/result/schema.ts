@@ -49,7 +49,7 @@ export interface RunResult {
   /** "video" for analyze, "stills" for the photo-series command. */
   source: 'video' | 'stills';
   tool: { name: 'kerrtrace'; version: string; ffmpegVersion: string | null; node: string };
-  inputs: { video?: InputFile; volts?: InputFile; openVideo?: InputFile; stills?: InputFile[]; baseline?: InputFile };
+  inputs: { video?: InputFile; volts?: InputFile; openVideo?: InputFile; stills?: InputFile[]; baseline?: InputFile; cameraProfile?: InputFile };
   options: Record<string, unknown>;
   cell: {
     lengthM: number;
@@ -118,9 +118,43 @@ export interface RunResult {
   hysteresis?: { up: Quantity; down: Quantity; difference: Quantity; zScore: number; flagged: boolean };
   conductivity?: { resistivity: Quantity; joulePower: Quantity; readable: boolean; note?: string };
   channels?: { r: Quantity; g: Quantity; b: Quantity; note: string };
+  /**
+   * Which camera response turned code values into light, and the run's own check of it
+   * (docs/camera-response.md). `check.standardUncertainty` is the named uncertainty term
+   * "cameraResponse" for the uncertainty budget (m/V², a standard uncertainty of B).
+   */
+  cameraResponse?: CameraResponseRecord;
   warnings: RunWarning[];
   /** Files written beside result.json, relative names. */
   files: Record<string, string>;
+}
+
+/** The camera response a run used and its check (see RunResult.cameraResponse). */
+export interface CameraResponseRecord {
+  /** 'tags': the transfer the file declares; 'option': --transfer; 'profile': a measured camera profile. */
+  route: 'tags' | 'option' | 'profile';
+  /** The transfer curve in use (with a profile: what the tags said, recorded only). */
+  transfer: string;
+  matrix: string;
+  bitDepth: number;
+  profile?: {
+    path: string;
+    createdAt: string;
+    camera: Record<string, string>;
+    /** RMS of the profile's own fit, relative to its full light range. */
+    residualRms: number;
+    /** Code values the profile was measured over (outside: extended linearly). */
+    codeRange: [number, number];
+  };
+  check: {
+    checked: boolean;
+    reason: string | null;
+    gamma: { value: number; stdErr: number };
+    kerrConstantAtGamma: { value: number; stdErr: number; unit: 'm/V^2' };
+    relativeShiftB: number;
+    standardUncertainty: { value: number; unit: 'm/V^2' };
+    departs: boolean;
+  };
 }
 
 /** One row of trace.csv (and the in-memory trace handed to the report). */

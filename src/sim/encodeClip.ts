@@ -14,6 +14,11 @@
  * so every kept frame keeps the timestamp of its first tick. `probePacketTimesS` reads the result
  * back with ffprobe so the caller can check it.
  *
+ * HDR clips (transfer hlg or pq): the caller hands in planar 10-bit Y'CbCr 4:2:0 (yuv420p10le, BT.2020
+ * matrix, limited range; see yuv420p10FromRgb) and ffmpeg encodes HEVC Main 10 with libx265 (adaptive
+ * quantisation and cu-tree off, for the same reason as above), tagged BT.2020 primaries and matrix and
+ * the arib-std-b67 (HLG) or smpte2084 (PQ) transfer, as phones record HDR video.
+ *
  * Throws KerrError FFMPEG_MISSING (no ffmpeg) or FFMPEG_FAILED (ffmpeg exits with an error; the
  * message carries ffmpeg's last line).
  * @example const enc = openClipEncoder({ outPath, widthPx: 320, heightPx: 240, transfer: 'srgb', crf: 18,
@@ -27,15 +32,15 @@ export interface ClipEncoderOptions {
   outPath: string;
   widthPx: number;
   heightPx: number;
-  transfer: 'srgb' | 'bt709';
+  transfer: 'srgb' | 'bt709' | 'hlg' | 'pq';
   crf: number;
   /** Constant: the frame rate num/den. Variable: the tick rate num/den; frames are written `repeats` ticks each. */
   rate: { kind: 'constant' | 'variable'; rational: [number, number] };
 }
 
 export interface ClipEncoder {
-  /** Queues one rgb24 frame (copied), written `repeats` times (variable rate: its length in ticks). */
-  write(frame: Uint8Array, repeats?: number): Promise<void>;
+  /** Queues one frame (copied: rgb24 bytes, or yuv420p10le samples for HDR), written `repeats` times (variable rate: its length in ticks). */
+  write(frame: Uint8Array | Uint16Array, repeats?: number): Promise<void>;
   /** Closes the pipe and waits for ffmpeg; throws FFMPEG_FAILED when it fails. */
   finish(): Promise<void>;
   /** Stops ffmpeg without waiting for a finished file. */
@@ -43,8 +48,33 @@ export interface ClipEncoder {
 }
 
 /** The ffmpeg arguments for these options (exported for tests and for the record). */
+/** True for the transfers the simulator writes as 10-bit HEVC (HLG, PQ). */
+export function isHdrTransfer(transfer: ClipEncoderOptions['transfer']): transfer is 'hlg' | 'pq' {
+  return transfer === 'hlg' || transfer === 'pq';
+}
+
 export function encoderArgs(o: ClipEncoderOptions): string[] {
   const [num, den] = o.rate.rational;
+  if (isHdrTransfer(o.transfer)) {
+    const trc = o.transfer === 'hlg' ? 'arib-std-b67' : 'smpte2084';
+    const hdrTiming: string[] = [];
+    const hdrFilters: string[] = [];
+    if (o.rate.kind === 'variable') {
+      hdrFilters.push('mpdecimate=hi=0:lo=0:frac=0:max=0');
+      hdrTiming.push('-vsync', 'vfr', '-video_track_timescale', String(den === 1 ? num * 10 : num));
+    }
+    return [
+      '-hide_banner', '-loglevel', 'error', '-y',
+      '-f', 'rawvideo', '-pix_fmt', 'yuv420p10le', '-s', `${o.widthPx}x${o.heightPx}`, '-framerate', `${num}/${den}`, '-i', 'pipe:0',
+      ...(hdrFilters.length ? ['-vf', hdrFilters.join(',')] : []),
+      ...hdrTiming,
+      '-an', '-c:v', 'libx265', '-preset', 'fast', '-crf', String(o.crf), '-pix_fmt', 'yuv420p10le',
+      '-x265-params', `log-level=error:aq-mode=0:cutree=0:colorprim=bt2020:transfer=${trc}:colormatrix=bt2020nc:range=limited`,
+      '-colorspace', 'bt2020nc', '-color_primaries', 'bt2020', '-color_trc', trc, '-color_range', 'tv', '-tag:v', 'hvc1',
+      '-movflags', '+faststart',
+      '-f', 'mp4', o.outPath,
+    ];
+  }
   const filters = ['scale=out_color_matrix=bt709:out_range=tv:flags=accurate_rnd+full_chroma_int', 'format=yuv420p'];
   const timing: string[] = [];
   if (o.rate.kind === 'variable') {
@@ -93,9 +123,10 @@ export function openClipEncoder(o: ClipEncoderOptions): ClipEncoder {
   };
 
   return {
-    async write(frame: Uint8Array, repeats = 1): Promise<void> {
+    async write(frame: Uint8Array | Uint16Array, repeats = 1): Promise<void> {
       if (done) throw new KerrError('INTERNAL', 'clip encoder used after finish');
-      const copy = Buffer.from(frame); // the caller reuses its buffer for the next frame
+      // the caller reuses its buffer for the next frame (16-bit samples go out little-endian, the host order on x86/ARM)
+      const copy = Buffer.from(Buffer.from(frame.buffer, frame.byteOffset, frame.byteLength));
       for (let r = 0; r < repeats; r++) {
         if (pipeError) throw failure('encode the clip');
         if (!child.stdin.write(copy)) {

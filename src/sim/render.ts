@@ -29,13 +29,23 @@ export interface RadianceInfo {
   meanRadiance: number;
 }
 
-/** T_c per channel at voltage V (Jones transmission with the static retardance added). */
-export function channelTransmission(scene: Scene, voltageV: number): Rgb {
+/**
+ * Analyser angle at video time t, rad: fixed, or turning steadily by 2π every
+ * cell.analyserTurnPeriodS (a calibration recording, Malus's law I ∝ cos²(analyser − polariser)).
+ */
+export function analyserAngleAt(scene: Scene, timeS: number): number {
   const { cell } = scene.scenario;
+  return cell.analyserTurnPeriodS > 0 ? cell.analyserAngleRad + (2 * Math.PI * timeS) / cell.analyserTurnPeriodS : cell.analyserAngleRad;
+}
+
+/** T_c per channel at voltage V (Jones transmission with the static retardance added), at video time t. */
+export function channelTransmission(scene: Scene, voltageV: number, timeS = 0): Rgb {
+  const { cell } = scene.scenario;
+  const analyserRad = analyserAngleAt(scene, timeS);
   const fieldVPerM = voltageV / cell.gapM;
   const t = (kerrConstantMPerV2: number): number => {
     const retardanceRad = cell.staticRetardanceRad + 2 * Math.PI * kerrConstantMPerV2 * cell.effectiveLengthM * fieldVPerM * fieldVPerM;
-    return jonesTransmission(cell.polariserAngleRad, cell.analyserAngleRad, retardanceRad);
+    return jonesTransmission(cell.polariserAngleRad, analyserRad, retardanceRad);
   };
   const b = scene.kerrConstantPerChannel;
   return [t(b[0]), t(b[1]), t(b[2])];
@@ -57,7 +67,7 @@ export function renderRadiance(scene: Scene, frameIndex: number, timeS: number, 
   const { scenario, width, height, beam, halo } = scene;
   const { light, dirt, camera } = scenario;
   const voltageV = driveVoltageV(scenario.drive, timeS);
-  const transmission = channelTransmission(scene, voltageV);
+  const transmission = channelTransmission(scene, voltageV, timeS);
   const w = light.channelWeights;
   const zeroFieldExtra = dirt.scatterFloor + scene.polariserLeak;
   const beamLevel = [0, 1, 2].map((c) => w[c]! * (light.amplitude * transmission[c]! + zeroFieldExtra));
@@ -121,7 +131,8 @@ export interface ExposureInfo {
 }
 
 /**
- * Camera stage: gain, shot and read noise, clipping, transfer, 8-bit rounding.
+ * Camera stage: gain, shot and read noise, clipping, transfer, rounding to the table's codes
+ * (8-bit into a Uint8Array, 10-bit into a Uint16Array).
  * `codes` maps linear light to a code value (makeCodeEncoder); `rng` supplies the noise.
  */
 export function exposeFrame(
@@ -130,12 +141,12 @@ export function exposeFrame(
   camera: Pick<ScenarioCamera, 'photonsPerFullScale' | 'readNoise'>,
   rng: Rng,
   codes: CodeTable,
-  out: Uint8Array,
+  out: Uint8Array | Uint16Array,
 ): ExposureInfo {
   const shotScale = camera.photonsPerFullScale > 0 ? 1 / camera.photonsPerFullScale : 0;
   const readVar = camera.readNoise * camera.readNoise;
   const noisy = shotScale > 0 || readVar > 0;
-  const { lut, thresholds } = codes;
+  const { lut, thresholds, topCode } = codes;
   const normal = NORMAL_TABLE;
   let clippedCount = 0;
   let bits = 0;
@@ -155,12 +166,12 @@ export function exposeFrame(
     }
     let code: number;
     if (!(s > 0)) code = 0;
-    else if (s >= 1) code = 255;
+    else if (s >= 1) code = topCode;
     else {
       code = lut[(s * CODE_BINS) | 0]!;
-      if (s >= thresholds[code]!) code++;
+      while (s >= thresholds[code]!) code++;
     }
-    if (code === 255) clippedCount++;
+    if (code === topCode) clippedCount++;
     out[j] = code;
   }
   return { clippedCount };
@@ -174,7 +185,7 @@ export function renderFrame(
   gain: number,
   rng: Rng,
   codes: CodeTable,
-  out: Uint8Array,
+  out: Uint8Array | Uint16Array,
   work: Float32Array = new Float32Array(scene.width * scene.height * 3),
 ): RadianceInfo & ExposureInfo {
   const info = renderRadiance(scene, frameIndex, timeS, work);

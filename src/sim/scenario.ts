@@ -19,7 +19,7 @@ import { DEG, halfWaveVoltageV } from '../core/physics/kerr.js';
 import { ScenarioReader } from './scenarioReader.js';
 import { channelWeightsForWavelength } from './cameraResponse.js';
 import { drivePeakV, driveDurationS, type Drive, type DrivePoint, type DriveSegment } from './drive.js';
-import type { SimTransfer } from './transfer.js';
+import type { SimToneCurve, SimTransfer } from './transfer.js';
 
 export type Rgb = [number, number, number];
 
@@ -32,6 +32,8 @@ export interface ScenarioCell {
   staticRetardanceRad: number;
   polariserAngleRad: number;
   analyserAngleRad: number;
+  /** Time for one full turn of the analyser, s (a calibration recording; 0 = the analyser stays put). */
+  analyserTurnPeriodS: number;
   extinctionRatio: number;
   breakdownFieldVPerM: number;
   breakdownFieldSource: string;
@@ -77,7 +79,10 @@ export interface ScenarioCamera {
   gain: number;
   autoExposure: { targetMean: number; lagS: number; minGain: number; maxGain: number } | null;
   ambient: number;
+  /** The transfer the clip is tagged with; hlg and pq render 10-bit HEVC with the BT.2020 matrix. */
   transfer: Exclude<SimTransfer, 'linear'>;
+  /** A phone tone curve applied instead of the tagged transfer (the tags then lie), or null. */
+  toneCurve: SimToneCurve | null;
   /** 0 switches shot noise off. */
   photonsPerFullScale: number;
   readNoise: number;
@@ -123,7 +128,7 @@ export const SCENARIO_KEYS = {
   '': ['label', 'notes', 'seed', 'durationS', 'cell', 'light', 'dirt', 'camera', 'drive', 'logger'],
   cell: [
     'kerrConstantMPerV2', 'lengthMm', 'effectiveLengthMm', 'gapMm', 'staticRetardanceRad', 'polariserAngleDeg',
-    'analyserAngleDeg', 'extinctionRatio', 'liquidBreakdownKvPerMm', 'resistivityOhmM', 'electrodeHeightMm', 'temperatureC',
+    'analyserAngleDeg', 'analyserTurnPeriodS', 'extinctionRatio', 'liquidBreakdownKvPerMm', 'resistivityOhmM', 'electrodeHeightMm', 'temperatureC',
   ],
   light: [
     'profile', 'sigmaPx', 'sigmaYPx', 'radiusPx', 'edgePx', 'centreXPx', 'centreYPx', 'wavelengthNm', 'white',
@@ -134,8 +139,9 @@ export const SCENARIO_KEYS = {
   'dirt.sparks': ['count', 'timesS', 'brightness'],
   camera: [
     'widthPx', 'heightPx', 'frameRateHz', 'variableFrameRate', 'gain', 'autoExposure', 'ambient', 'transfer',
-    'photonsPerFullScale', 'readNoise', 'crf', 'referencePatch',
+    'toneCurve', 'photonsPerFullScale', 'readNoise', 'crf', 'referencePatch',
   ],
+  'camera.toneCurve': ['exponent', 'midContrast'],
   'camera.variableFrameRate': ['tickHz', 'minTicks', 'maxTicks', 'tickWeights'],
   'camera.autoExposure': ['targetMean', 'lagS', 'minGain', 'maxGain'],
   'camera.referencePatch': ['xPx', 'yPx', 'widthPx', 'heightPx', 'radiance'],
@@ -228,6 +234,7 @@ function parseCell(r: ScenarioReader): ScenarioCell {
     staticRetardanceRad,
     polariserAngleRad: polariserAngleDeg * DEG,
     analyserAngleRad: analyserAngleDeg * DEG,
+    analyserTurnPeriodS: r.nonNegative('analyserTurnPeriodS', 'the time for one full turn of the analyser in s (0 = fixed)', 0, 3600),
     extinctionRatio,
     breakdownFieldVPerM: liquidKvPerMm * 1e6,
     breakdownFieldSource: hasLiquidBreakdown ? 'cell.liquidBreakdownKvPerMm' : 'air, common practice',
@@ -277,7 +284,16 @@ function parseCamera(r: ScenarioReader, source: string): ScenarioCamera {
     };
   }
   const ambient = r.nonNegative('ambient', 'the ambient light level (linear, fraction of full scale)', 0.01, 1);
-  const transfer = r.choice('transfer', 'the camera transfer function', ['srgb', 'bt709'] as const, 'srgb');
+  const transfer = r.choice('transfer', 'the camera transfer function', ['srgb', 'bt709', 'hlg', 'pq'] as const, 'srgb');
+  let toneCurve: SimToneCurve | null = null;
+  if (r.has('toneCurve')) {
+    const t = new ScenarioReader(r.raw('toneCurve'), 'camera.toneCurve', source, SCENARIO_KEYS['camera.toneCurve']);
+    toneCurve = {
+      exponent: t.positive('exponent', 'the power-law exponent of the phone curve (2.2 is sRGB-like)', 2.2, 5),
+      midContrast: t.nonNegative('midContrast', 'the mid-tone S-curve strength (0 none, below 0.9)', 0.3, 0.9),
+    };
+    if (transfer === 'hlg' || transfer === 'pq') throw t.fail('a tone curve on an SDR clip (transfer srgb or bt709)', '', transfer);
+  }
   const photonsPerFullScale = r.nonNegative('photonsPerFullScale', 'photons per full-scale pixel for shot noise (0 = off)', 10_000, 1e9);
   const readNoise = r.nonNegative('readNoise', 'the read-noise standard deviation (linear)', 0.0015, 0.5);
   const crf = r.integer('crf', 'the H.264 constant rate factor (0 best, 51 worst)', 18, 0, 51);
@@ -295,7 +311,7 @@ function parseCamera(r: ScenarioReader, source: string): ScenarioCamera {
     }
     referencePatch = { rect, radiance: p.positive('radiance', 'the patch radiance (linear, fraction of full scale)', 0.2, 1) };
   }
-  return { widthPx, heightPx, timing, gain, autoExposure, ambient, transfer, photonsPerFullScale, readNoise, crf, referencePatch };
+  return { widthPx, heightPx, timing, gain, autoExposure, ambient, transfer, toneCurve, photonsPerFullScale, readNoise, crf, referencePatch };
 }
 
 /** A rate in Hz as a fraction ffmpeg can take exactly: the smallest denominator up to 1001 that fits. */

@@ -21,7 +21,8 @@ import { fileURLToPath } from 'node:url';
 import { KerrError } from '../errors.js';
 import { locate } from '../media/ffmpegPaths.js';
 import { halfWaveVoltageV } from '../core/physics/kerr.js';
-import { openClipEncoder, probePacketTimesS, type ClipEncoder } from './encodeClip.js';
+import { isHdrTransfer, openClipEncoder, probePacketTimesS, type ClipEncoder } from './encodeClip.js';
+import { yuv420p10FromRgb } from './yuv420p10FromRgb.js';
 import { nextGain, wantedGain } from './exposure.js';
 import { frameTimes } from './frameTimes.js';
 import { makeRng } from './rng.js';
@@ -72,7 +73,8 @@ export async function simulateRun(scenario: Scenario, outDir: string, opts: Simu
     const root = makeRng(scenario.seed);
     const clock = frameTimes(camera.timing, scenario.durationS, root.split('clock'));
     const scene = prepareScene(scenario, clock, root);
-    const codes = makeCodeEncoder(camera.transfer);
+    const hdr = isHdrTransfer(camera.transfer);
+    const codes = makeCodeEncoder(camera.toneCurve ?? camera.transfer, hdr ? 10 : 8);
     const variable = camera.timing.kind === 'variable';
     const rational = camera.timing.kind === 'constant' ? camera.timing.rational : rationalRate(camera.timing.tickHz);
     const clipPath = join(tmp, 'clip.mp4');
@@ -87,8 +89,9 @@ export async function simulateRun(scenario: Scenario, outDir: string, opts: Simu
 
     const count = clock.timesS.length;
     const work = new Float32Array(camera.widthPx * camera.heightPx * 3);
-    const frame = new Uint8Array(work.length);
-    const previous = variable ? new Uint8Array(work.length) : null;
+    const frame = hdr ? new Uint16Array(work.length) : new Uint8Array(work.length);
+    const yuv = hdr ? new Uint16Array((camera.widthPx * camera.heightPx * 3) / 2) : null;
+    const previous = variable ? new Uint8Array(frame.byteLength) : null;
     const hash = createHash('sha256');
     const frames: FrameRecord[] = [];
     const auto = camera.autoExposure;
@@ -98,17 +101,19 @@ export async function simulateRun(scenario: Scenario, outDir: string, opts: Simu
       const radiance = renderRadiance(scene, k, timeS, work);
       if (auto && k === 0) gain = wantedGain(auto, radiance.meanRadiance);
       const exposure = exposeFrame(work, gain, camera, root.split('frame', k), codes, frame);
-      hash.update(frame);
+      const frameBytes = Buffer.from(frame.buffer, frame.byteOffset, frame.byteLength);
+      hash.update(frameBytes);
       if (previous) {
-        if (k > 0 && Buffer.from(frame.buffer, frame.byteOffset, frame.byteLength).equals(previous)) {
+        if (k > 0 && frameBytes.equals(previous)) {
           throw new KerrError('BAD_SCENARIO', `frames ${k - 1} and ${k} came out identical, so a variable-frame-rate clip cannot keep them apart`, {
             hint: 'Raise camera.readNoise or camera.photonsPerFullScale so consecutive frames differ',
           });
         }
-        previous.set(frame);
+        previous.set(frameBytes);
       }
       const repeats = variable && k + 1 < count ? clock.ticks![k + 1]! - clock.ticks![k]! : 1;
-      await encoder.write(frame, repeats);
+      if (yuv) yuv420p10FromRgb(frame as Uint16Array, camera.widthPx, camera.heightPx, yuv);
+      await encoder.write(yuv ?? frame, repeats);
       frames.push({ voltageV: radiance.voltageV, gain, clippedCount: exposure.clippedCount });
       if (auto && k + 1 < count) gain = nextGain(auto, gain, radiance.meanRadiance, clock.timesS[k + 1]! - timeS);
       opts.onProgress?.(k + 1, count);

@@ -6,11 +6,13 @@
  * Memory: 65536 × 8 bytes = 512 KiB for 16-bit. Pure.
  * @example codeToLinearLut('srgb', 255)[128] // 0.215861 (IEC 61966-2-1 check value)
  */
+import { responseAt } from '../core/camera/responseTable.js';
 import { toLinear } from '../core/camera/transfer.js';
-import type { TransferName } from '../media/types.js';
+import type { ResponseTable, TransferName } from '../media/types.js';
 
-export function codeToLinearLut(transfer: TransferName, maxCode: 255 | 65535): Float64Array {
+/** With `response` (a measured camera profile), entry k is the profile's light at code 255·k/maxCode instead. */
+export function codeToLinearLut(transfer: TransferName, maxCode: 255 | 65535, response?: ResponseTable): Float64Array {
   const lut = new Float64Array(maxCode + 1);
-  for (let code = 0; code <= maxCode; code++) lut[code] = toLinear(transfer, code / maxCode);
+  for (let code = 0; code <= maxCode; code++) lut[code] = response ? responseAt(response, (255 * code) / maxCode) : toLinear(transfer, code / maxCode);
   return lut;
 }

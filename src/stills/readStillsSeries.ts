@@ -43,7 +43,7 @@ import { basename, dirname, extname, join, resolve } from 'node:path';
 import sharp from 'sharp';
 import exifr from 'exifr';
 import { KerrError } from '../errors.js';
-import type { Rect, RegionSample, TransferName } from '../media/types.js';
+import type { Rect, RegionSample, ResponseTable, TransferName } from '../media/types.js';
 import type { RunWarning } from '../result/schema.js';
 import type { GuideAnchor } from '../report/guide.js';
 import { validateRect } from '../measure/rect.js';
@@ -67,6 +67,8 @@ export interface StillsOptions {
   referenceRoi?: Rect;
   /** Overrides the per-file default transfer. */
   transfer?: TransferName;
+  /** A measured camera response (camera profile) used instead of any transfer curve. */
+  response?: ResponseTable;
   /** Clipping threshold as a fraction of full scale; default 250/255. */
   clipLevel?: number;
   /**
@@ -373,10 +375,10 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     }
     const path = join(folder, photos[i]!);
     const maxCode = info.maxCode;
-    const key = `${transfers[i]}/${maxCode}`;
+    const key = `${opts.response ? 'profile' : transfers[i]}/${maxCode}`;
     let lut = luts.get(key);
     if (lut === undefined) {
-      lut = codeToLinearLut(transfers[i]!, maxCode);
+      lut = codeToLinearLut(transfers[i]!, maxCode, opts.response);
       luts.set(key, lut);
     }
     let measured: RegionSample[];
@@ -458,7 +460,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
     const transfer = opts.transfer ?? defaultTransfer(info.format, info.maxCode);
     let measured: RegionSample[];
     try {
-      measured = await measurePhoto(path, info.maxCode, codeToLinearLut(transfer, info.maxCode), regions, Math.round(clipLevel * info.maxCode));
+      measured = await measurePhoto(path, info.maxCode, codeToLinearLut(transfer, info.maxCode, opts.response), regions, Math.round(clipLevel * info.maxCode));
     } catch (e) {
       throw fail(`the open photo ${path} could not be decoded (${messageOf(e)})`, 'Re-export it as JPEG, PNG or TIFF');
     }

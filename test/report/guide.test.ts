@@ -10,7 +10,7 @@ const flat = (s: string): string => s.replace(/\s+/g, ' ');
 
 describe('recording guide', () => {
   it('has every anchor the brief names, each exactly once, as an explicit id', () => {
-    const wanted = ['lock-exposure', 'avoid-clipping', 'open-level', 'sweep', 'voltage-log', 'temperature', 'camera-still', 'sync', 'safety'];
+    const wanted = ['lock-exposure', 'lock-camera', 'calibrate-camera', 'avoid-clipping', 'open-level', 'sweep', 'voltage-log', 'temperature', 'camera-still', 'sync', 'safety'];
     expect(GUIDE_SECTIONS.map((s) => s.anchor)).toEqual(wanted);
     for (const a of wanted) expect(docs.split(`<a id="${a}"></a>`).length - 1).toBe(1);
   });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { decodingFor } from '../../../src/core/camera/decodingFor.js';
+import type { KerrError } from '../../../src/errors.js';
 
 const tagged = { colourTransfer: 'iec61966-2-1', colourMatrix: 'bt709', colourRange: 'limited' as const, height: 1080 };
 
@@ -19,8 +20,27 @@ describe('decodingFor: decoding chosen from stream tags (ffprobe names)', () => 
     expect(d.notes.join(' ')).toMatch(/transfer/);
   });
 
-  it('says HDR transfers are not supported', () => {
-    expect(decodingFor({ ...tagged, colourTransfer: 'arib-std-b67' }).notes.join(' ')).toMatch(/HDR/);
+  it('reads the HDR transfers from their tags: arib-std-b67 → hlg, smpte2084 → pq (ITU-R BT.2100; ffprobe names), and bt2020nc → the BT.2020 matrix', () => {
+    const hlg = decodingFor({ ...tagged, colourTransfer: 'arib-std-b67', colourMatrix: 'bt2020nc' });
+    expect(hlg).toMatchObject({ transfer: 'hlg', matrix: 'bt2020', notes: [] });
+    const pq = decodingFor({ ...tagged, colourTransfer: 'smpte2084', colourMatrix: 'bt2020nc' });
+    expect(pq.transfer).toBe('pq');
+    expect(pq.notes.join(' ')).toMatch(/clipped highlights cannot be recognised/);
+  });
+
+  it('refuses a tagged transfer or matrix it cannot decode, in one line, instead of decoding it as something else', () => {
+    for (const meta of [{ ...tagged, colourTransfer: 'log316' }, { ...tagged, colourTransfer: 'smpte428' }, { ...tagged, colourMatrix: 'bt2020c' }, { ...tagged, colourMatrix: 'ycgco' }]) {
+      let caught: unknown;
+      try { decodingFor(meta); } catch (e) { caught = e; }
+      expect((caught as { code?: string }).code).toBe('UNSUPPORTED_ENCODING');
+      expect((caught as KerrError).oneLine()).not.toMatch(/\n/);
+    }
+  });
+
+  it('accepts an unknown transfer tag when a measured response is given, and says so', () => {
+    const d = decodingFor({ ...tagged, colourTransfer: 'log316' }, { response: { code: [0, 128, 255], linear: [0, 0.3, 1] } });
+    expect(d.response).toBeDefined();
+    expect(d.notes.join(' ')).toMatch(/measured camera response/);
   });
 
   it('maps BT.601 matrix tags and guesses by frame height when untagged (common practice: HD is BT.709)', () => {

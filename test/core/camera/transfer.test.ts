@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { bt709ToLinear, parseTransfer, srgbToLinear, toLinear, transferLut } from '../../../src/core/camera/transfer.js';
+import { HLG_A, HLG_B, HLG_C, PQ, bt709ToLinear, hlgToLinear, parseTransfer, pqToCdM2, srgbToLinear, toLinear, transferLut } from '../../../src/core/camera/transfer.js';
 import { KerrError } from '../../../src/errors.js';
 import { OUTSIDE } from '../../setup/outsideSources.js';
 
@@ -91,5 +91,60 @@ describe('parseTransfer', () => {
     expect((caught as KerrError).code).toBe('BAD_ARGUMENT');
     expect((caught as KerrError).message).toContain('--transfer');
     expect((caught as KerrError).hint).toBeTruthy();
+  });
+});
+
+describe('HLG inverse OETF (ITU-R BT.2100-2 Table 5; ARIB STD-B67)', () => {
+  it('derives b = 1 − 4a and c = 0.5 − a·ln(4a) from a = 0.17883277 and matches the published 0.28466892 and 0.55991073', () => {
+    expect(HLG_B).toBeCloseTo(0.28466892, 8);
+    expect(HLG_C).toBeCloseTo(0.55991073, 8);
+  });
+
+  it('is E′²/3 up to E′ = 1/2, giving 1/12 there, and continuous into the log segment (BT.2100 design: the OETF is √(3E) below E = 1/12)', () => {
+    expect(hlgToLinear(0.5)).toBeCloseTo(1 / 12, 12);
+    expect(hlgToLinear(0.25)).toBeCloseTo(0.0625 / 3, 12);
+    expect(Math.abs(hlgToLinear(0.5 + 1e-9) - 1 / 12)).toBeLessThan(1e-8);
+  });
+
+  it('maps E′ = 1 to 1 (nominal peak) and undoes the BT.2100 OETF E′ = a·ln(12E − b) + c above E = 1/12', () => {
+    expect(hlgToLinear(1)).toBeCloseTo(1, 6);
+    for (const e of [0.1, 0.3, 0.7]) {
+      const signal = HLG_A * Math.log(12 * e - HLG_B) + HLG_C;
+      expect(hlgToLinear(signal)).toBeCloseTo(e, 10);
+    }
+    for (const e of [0.001, 0.05]) expect(hlgToLinear(Math.sqrt(3 * e))).toBeCloseTo(e, 12);
+  });
+
+  it('parses hlg and pq as transfer names', () => {
+    expect(parseTransfer('HLG', '--transfer')).toBe('hlg');
+    expect(parseTransfer('pq', '--transfer')).toBe('pq');
+  });
+});
+
+describe('PQ EOTF (SMPTE ST 2084:2014)', () => {
+  it('gives 10000 cd/m² at E′ = 1 and 0 at E′ = 0 (the curve\'s definition)', () => {
+    expect(pqToCdM2(1)).toBeCloseTo(10000, 6);
+    expect(pqToCdM2(0)).toBe(0);
+    expect(toLinear('pq', 1)).toBeCloseTo(1, 9);
+  });
+
+  it('undoes the ST 2084 inverse EOTF E′ = ((c1 + c2·Y^m1)/(1 + c3·Y^m1))^m2, Y = L/10000', () => {
+    for (const cd of [0.1, 1, 100, 203, 1000, 4000]) {
+      const y = (cd / 10000) ** PQ.m1;
+      const signal = ((PQ.c1 + PQ.c2 * y) / (1 + PQ.c3 * y)) ** PQ.m2;
+      expect(pqToCdM2(signal) / cd).toBeCloseTo(1, 10);
+    }
+  });
+
+  it('puts 100 cd/m² near E′ = 0.508 (common practice: SDR white sits at about half the PQ signal; from memory)', () => {
+    expect(pqToCdM2(0.508)).toBeGreaterThan(98);
+    expect(pqToCdM2(0.508)).toBeLessThan(102);
+  });
+
+  it('tabulates finely for 10-bit sources: 4 entries per 8-bit code, table and curve agree', () => {
+    const lut = transferLut('pq', 4);
+    expect(lut.length).toBe(255 * 4 + 2);
+    expect(lut[1020]).toBeCloseTo(1, 9);
+    expect(lut[510]).toBeCloseTo(toLinear('pq', 0.5), 12);
   });
 });

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { decodePixel, yuvTables } from '../../../src/core/camera/yuvToLinear.js';
-import { srgbToLinear } from '../../../src/core/camera/transfer.js';
+import { hlgToLinear, srgbToLinear } from '../../../src/core/camera/transfer.js';
 import type { CameraDecoding } from '../../../src/media/types.js';
 import { OUTSIDE } from '../../setup/outsideSources.js';
 
@@ -75,5 +75,42 @@ describe('YUV→RGB matrices', { tags: [OUTSIDE.bt709] }, () => {
     expect(decode(bt709Limited, 63, 102, 240).clipped).toBe(true); // red channel at 255
     expect(decode(bt709Limited, 120, 128, 128).clipped).toBe(false);
     expect(decode({ ...bt709Limited, clipCode: 120 }, 120, 128, 128).clipped).toBe(true);
+  });
+});
+
+describe('10-bit samples and the BT.2020 matrix (ITU-R BT.2020-2 Tables 4 and 5)', () => {
+  const hlg2020: CameraDecoding = { range: 'limited', matrix: 'bt2020', transfer: 'hlg', clipCode: 250 };
+
+  it('maps 10-bit limited black 64 and white 940 to codes 0 and 255, neutral chroma 512 (BT.2020-2 Table 5)', () => {
+    const out = new Float64Array(6);
+    const t = yuvTables(hlg2020, 10);
+    decodePixel(t, 64, 512, 512, out);
+    expect([out[0], out[1], out[2]]).toEqual([0, 0, 0]);
+    decodePixel(t, 940, 512, 512, out);
+    for (let k = 0; k < 3; k++) expect(out[k]).toBeCloseTo(255, 9);
+    for (let k = 3; k < 6; k++) expect(out[k]).toBeCloseTo(1, 6); // HLG E′ = 1 → 1
+  });
+
+  it('keeps the two extra bits: Y = 502 and 503 decode to different light, a quarter of an 8-bit step apart', () => {
+    const t = yuvTables(hlg2020, 10);
+    const a = new Float64Array(6), b = new Float64Array(6);
+    decodePixel(t, 502, 512, 512, a);
+    decodePixel(t, 503, 512, 512, b);
+    expect(b[0]! - a[0]!).toBeCloseTo(255 / 876, 9);
+    expect(b[3]!).toBeGreaterThan(a[3]!);
+    expect(a[3]).toBeCloseTo(hlgToLinear((502 - 64) / 876), 5);
+  });
+
+  it('inverts the BT.2020 non-constant-luminance encoding Y′ = 0.2627R′ + 0.6780G′ + 0.0593B′, Cb = (B′ − Y′)/1.8814, Cr = (R′ − Y′)/1.4746', () => {
+    const rgb = [0.8, 0.3, 0.1];
+    const y = 0.2627 * rgb[0]! + 0.678 * rgb[1]! + 0.0593 * rgb[2]!;
+    const cb = (rgb[2]! - y) / 1.8814;
+    const cr = (rgb[0]! - y) / 1.4746;
+    // 10-bit limited quantisation, kept fractional here by decoding through the exact tables
+    const t = yuvTables({ ...hlg2020, transfer: 'linear' }, 10);
+    const Y = Math.round(64 + 876 * y), U = Math.round(512 + 896 * cb), V = Math.round(512 + 896 * cr);
+    const out = new Float64Array(6);
+    decodePixel(t, Y, U, V, out);
+    for (let k = 0; k < 3; k++) expect(out[k]! / 255).toBeCloseTo(rgb[k]!, 2);
   });
 });

@@ -1,0 +1,163 @@
+/**
+ * The camera-response check of a run: does the footage's linearised intensity follow the light, or
+ * does the camera's curve depart from the one assumed (its tags, or a profile)?
+ *
+ * One-parameter departure: the true light is a power of the linearised intensity,
+ *   I_true ∝ I_lin^γ,  so  I_lin = K·(φ + u(V))^(1/γ),  u(V) = sin²(2θ)·sin²(π/2·(V/V_π)² + δ_s/2),
+ * with K a scale (amplitude^(1/γ) times the camera's own scale), φ = I_floor/I_amp the floor in
+ * units of the amplitude, and γ = 1 when the assumed curve is right. A power law commutes with the
+ * average over the beam's pixels (mean of (G_p·L)^κ = L^κ·mean(G_p^κ)), so the region mean keeps the
+ * form; the light of the surround, which is subtracted, is neglected (a small bias of γ when the
+ * surround is bright). K, φ, γ and V_π are fitted jointly by Levenberg–Marquardt from the main fit's
+ * solution, on the frames the main fit kept (its Huber outliers left out). The shape of sin² over a
+ * sweep near or past V_π is what separates γ from V_π; below that, an open level (analyser parallel:
+ * I_lin,open = K·(φ + 1)^(1/γ)) ties the scale, and enters as one more point weighted like ten frames
+ * (it is a median of many frames; common practice, stated). Without either the check is skipped.
+ *
+ * Reported: γ ± σ_γ (σ from the fit covariance, inflated by the main fit's factor for correlated
+ * residuals), B at the fitted γ against B at γ = 1 (the main fit), and the standard uncertainty of
+ * B from the response, u = √((B_γ − B_1)² + max(0, σ²(B_γ) − σ²(B_1))): the shift an uncorrected
+ * response departure would leave, plus the extra scatter from letting the response free (a GUM
+ * Type B term, JCGM 100:2008 §4.3 and F.2.4.5). `departs` when |γ − 1| > 2σ_γ and |γ − 1| > 0.02
+ * (about a 0.5 % change of slope per decade of light: below that, compression and noise make a
+ * departure meaningless in practice; our choice).
+ *
+ * Pure. Throws nothing: a failed or unidentifiable check comes back with `checked: false` and the
+ * reason.
+ * @example checkCameraResponse({ voltageV, intensity, used, fit: { floor: 0.01, amplitude: 0.5, halfWaveVoltageV: 9000 },
+ *   polariserAngleDeg: 45, effectiveLengthM: 0.05, gapM: 0.005, kerrConstant: 2.4e-12, kerrStdErr: 1e-14, errorInflation: 1.5 })
+ */
+import { levenbergMarquardt, type CurveModel } from './levenbergMarquardt.js';
+
+export interface ResponseCheckInput {
+  voltageV: Float64Array;
+  intensity: Float64Array;
+  /** 1 for the points the main fit kept (not an outlier), 0 otherwise. */
+  used: Uint8Array;
+  /** The main fit's solution (γ = 1). */
+  fit: { floor: number; amplitude: number; halfWaveVoltageV: number };
+  polariserAngleDeg: number;
+  staticRetardanceRad?: number;
+  openLevel?: number;
+  effectiveLengthM: number;
+  gapM: number;
+  /** B of the main fit and its standard error, m/V². */
+  kerrConstant: number;
+  kerrStdErr: number;
+  /** The main fit's factor for correlated residuals (≥ 1). */
+  errorInflation: number;
+}
+
+export interface ResponseCheck {
+  checked: boolean;
+  /** Why the check was skipped or failed (null when it ran). */
+  reason: string | null;
+  /** Exponent γ of I_true ∝ I_lin^γ and its standard error (NaN when not checked). */
+  gamma: { value: number; stdErr: number };
+  /** B at the fitted γ, m/V², with its standard error. */
+  kerrConstantAtGamma: { value: number; stdErr: number; unit: 'm/V^2' };
+  /** B_γ/B_1 − 1. */
+  relativeShiftB: number;
+  /** Standard uncertainty of B from the camera response, m/V² (0 when not checked: nothing known). */
+  standardUncertainty: { value: number; unit: 'm/V^2' };
+  /** |γ − 1| > 2σ and > 0.02. */
+  departs: boolean;
+}
+
+/** x of the open-level point: a finite marker no voltage reaches (the least-squares code wants finite x). */
+const OPEN_POINT = Number.MAX_VALUE;
+const OPEN_WEIGHT = 10;
+
+function skipped(reason: string): ResponseCheck {
+  return {
+    checked: false, reason,
+    gamma: { value: NaN, stdErr: NaN },
+    kerrConstantAtGamma: { value: NaN, stdErr: NaN, unit: 'm/V^2' },
+    relativeShiftB: NaN,
+    standardUncertainty: { value: 0, unit: 'm/V^2' },
+    departs: false,
+  };
+}
+
+export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
+  const { voltageV, intensity, used, fit } = input;
+  const angleFactor = Math.sin((2 * input.polariserAngleDeg * Math.PI) / 180) ** 2;
+  const halfStatic = (input.staticRetardanceRad ?? 0) / 2;
+  if (!(fit.amplitude > 0) || !(fit.halfWaveVoltageV > 0)) return skipped('the main fit has no positive amplitude');
+  let vMax = 0;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (let i = 0; i < voltageV.length; i++) {
+    if (!used[i] || !Number.isFinite(voltageV[i]!) || !Number.isFinite(intensity[i]!)) continue;
+    xs.push(voltageV[i]!);
+    ys.push(intensity[i]!);
+    vMax = Math.max(vMax, Math.abs(voltageV[i]!));
+  }
+  const reach = vMax / fit.halfWaveVoltageV;
+  const haveOpen = input.openLevel !== undefined && input.openLevel > 0;
+  if (reach < 0.8 && !haveOpen) {
+    return skipped(`the sweep reaches ${(reach * 100).toFixed(0)} % of the half-wave voltage and no open level is known, so the response cannot be told from the half-wave voltage`);
+  }
+  if (xs.length < 20) return skipped('fewer than 20 usable frames');
+  const weights = new Float64Array(xs.length + (haveOpen ? 1 : 0)).fill(1);
+  if (haveOpen) {
+    xs.push(OPEN_POINT);
+    ys.push(input.openLevel!);
+    weights[weights.length - 1] = OPEN_WEIGHT;
+  }
+  const x = Float64Array.from(xs);
+  const y = Float64Array.from(ys);
+
+  // p = [K, φ, κ = 1/γ, V_π]
+  const model: CurveModel = {
+    nParams: 4,
+    value(p, v) {
+      let u: number;
+      if (v === OPEN_POINT) u = 1;
+      else {
+        const s = Math.sin((Math.PI / 2) * (v / p[3]!) * (v / p[3]!) + halfStatic);
+        u = angleFactor * s * s;
+      }
+      const base = p[1]! + u;
+      return p[0]! * Math.pow(base > 1e-12 ? base : 1e-12, p[2]!);
+    },
+  };
+  const vpi0 = fit.halfWaveVoltageV;
+  const phi0 = Math.max(1e-4, fit.floor / fit.amplitude);
+  const start = [fit.amplitude, phi0, 1, vpi0];
+  let res: ReturnType<typeof levenbergMarquardt>;
+  try {
+    res = levenbergMarquardt(model, x, y, start, {
+      lower: [0, 1e-6, 0.25, 0.5 * vpi0],
+      upper: [Infinity, 10, 4, 2 * vpi0],
+      weights,
+      maxIterations: 300,
+    });
+  } catch (e) {
+    return skipped(`the joint fit of response and half-wave voltage could not run (${e instanceof Error ? e.message : String(e)})`);
+  }
+  if (!Number.isFinite(res.rss) || !(res.stdErr[2]! > 0) || !(res.stdErr[3]! > 0)) {
+    return skipped(`the joint fit of response and half-wave voltage did not settle (${res.reason})`);
+  }
+  const inflation = Math.max(1, input.errorInflation);
+  const kappa = res.params[2]!;
+  const kappaErr = res.stdErr[2]! * inflation;
+  const gamma = 1 / kappa;
+  const gammaErr = kappaErr / (kappa * kappa);
+  const vpi = res.params[3]!;
+  const vpiErr = res.stdErr[3]! * inflation;
+  const bGamma = (input.gapM * input.gapM) / (2 * input.effectiveLengthM * vpi * vpi);
+  const bGammaErr = bGamma * 2 * (vpiErr / vpi);
+  const shift = bGamma - input.kerrConstant;
+  const extraVar = Math.max(0, bGammaErr * bGammaErr - input.kerrStdErr * input.kerrStdErr);
+  const departs = Math.abs(gamma - 1) > 2 * gammaErr && Math.abs(gamma - 1) > 0.02;
+  return {
+    checked: true,
+    reason: null,
+    gamma: { value: gamma, stdErr: gammaErr },
+    kerrConstantAtGamma: { value: bGamma, stdErr: bGammaErr, unit: 'm/V^2' },
+    relativeShiftB: bGamma / input.kerrConstant - 1,
+    standardUncertainty: { value: Math.sqrt(shift * shift + extraVar), unit: 'm/V^2' },
+    departs,
+  };
+}

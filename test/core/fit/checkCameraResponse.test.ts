@@ -1,0 +1,61 @@
+import { describe, expect, it } from 'vitest';
+import { checkCameraResponse } from '../../../src/core/fit/checkCameraResponse.js';
+import { fitKerrCurve } from '../../../src/core/fit/fitKerrCurve.js';
+import { makeRng } from '../../../src/sim/rng.js';
+
+const L = 0.05, D = 0.005, B = 2.4e-12;
+const VPI = D / Math.sqrt(2 * B * L); // V_π = d/√(2BL) (Kerr law)
+
+/** A sweep to `reach`·V_π and back; the camera reports (F + A·u)^(1/γ) plus noise (invented test data). */
+function run(gamma: number, reach: number, seed: number, withOpenLevel = false) {
+  const rng = makeRng(seed);
+  const n = 400;
+  const v = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    v[i] = reach * VPI * Math.sin((Math.PI * i) / (n - 1));
+    const u = Math.sin((Math.PI / 2) * (v[i]! / VPI) ** 2) ** 2;
+    y[i] = Math.pow(0.01 + 0.5 * u, 1 / gamma) + 0.002 * rng.normal();
+  }
+  const fit = fitKerrCurve({ voltageV: v, intensity: y, effectiveLengthM: L, gapM: D, polariserAngleDeg: 45 });
+  const check = checkCameraResponse({
+    voltageV: v, intensity: y, used: Uint8Array.from(fit.outliers, (x) => 1 - x),
+    fit: { floor: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
+    polariserAngleDeg: 45, effectiveLengthM: L, gapM: D,
+    kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+    // the open level is measured through the same camera: (floor + amplitude)^(1/γ)
+    ...(withOpenLevel ? { openLevel: Math.pow(0.51, 1 / gamma) } : {}),
+  });
+  return { fit, check };
+}
+
+describe('checkCameraResponse: a power-law departure fitted jointly with V_π', () => {
+  it('finds γ = 1 within its uncertainty on footage that follows its curve, and does not warn', () => {
+    const { check } = run(1, 1.2, 3);
+    expect(check.checked).toBe(true);
+    expect(Math.abs(check.gamma.value - 1)).toBeLessThan(3 * check.gamma.stdErr + 1e-9);
+    expect(check.departs).toBe(false);
+  });
+
+  it('recovers a departure γ = 1.3 on a sweep to 0.9 V_π (within 3σ), flags it, and B at the fitted γ is closer to the truth than B at γ = 1', () => {
+    const { fit, check } = run(1.3, 0.9, 4);
+    expect(check.departs).toBe(true);
+    expect(Math.abs(check.gamma.value - 1.3)).toBeLessThan(3 * check.gamma.stdErr);
+    expect(Math.abs(check.kerrConstantAtGamma.value / B - 1)).toBeLessThan(Math.abs(fit.kerrConstant.value / B - 1));
+    // the named uncertainty term covers the error of the γ = 1 figure
+    expect(check.standardUncertainty.value).toBeGreaterThan(0.8 * Math.abs(fit.kerrConstant.value - B));
+  });
+
+  it('runs on a low sweep when an open level is known, and finds the departure', () => {
+    const { check } = run(1.3, 0.5, 6, true);
+    expect(check.checked).toBe(true);
+    expect(check.departs).toBe(true);
+    expect(Math.abs(check.gamma.value - 1.3)).toBeLessThan(3 * check.gamma.stdErr + 0.02);
+  });
+
+  it('is skipped, with its reason, when the sweep stays well below V_π and no open level is known', () => {
+    const { check } = run(1.2, 0.5, 5);
+    expect(check.checked).toBe(false);
+    expect(check.reason).toMatch(/half-wave/);
+    expect(check.standardUncertainty.value).toBe(0);
+  });
+});
