@@ -7,6 +7,7 @@ import { register as inspect } from './inspect.js';
 import { register as simulate } from './simulate.js';
 import { register as stills } from './stills.js';
 import { register as trace } from './trace.js';
+import { register as watch } from './watch.js';
 
 /** Registers every command; each command file exports `register(program)`. */
 export function registerCommands(program: Command): void {
@@ -18,4 +19,5 @@ export function registerCommands(program: Command): void {
   compare(program);
   stills(program);
   design(program);
+  watch(program);
 }
