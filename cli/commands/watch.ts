@@ -135,6 +135,7 @@ export function register(program: Command): void {
         }
         const token = LOOPBACK.has(host) ? null : randomBytes(16).toString('hex');
         server = await startLiveServer({ host, port, token, session });
+        session.setClients(0); // the camera is released if no page opens within --idle-s
       } catch (err) {
         replay?.stop();
         await session?.close();

@@ -24,7 +24,7 @@ export function followFile(path: string, handlers: FollowHandlers, intervalMs = 
   let offset = 0;
   let inode: number | null = null;
   let decoder = new TextDecoder('utf-8');
-  let busy = false;
+  let inflight: Promise<void> | null = null;
   let stopped = false;
   let lastProblem: string | null = 'not read yet';
 
@@ -33,9 +33,7 @@ export function followFile(path: string, handlers: FollowHandlers, intervalMs = 
     lastProblem = p;
   };
 
-  const poll = async (): Promise<void> => {
-    if (busy || stopped) return;
-    busy = true;
+  const readNew = async (): Promise<void> => {
     try {
       let info;
       try {
@@ -69,8 +67,14 @@ export function followFile(path: string, handlers: FollowHandlers, intervalMs = 
         await handle.close();
       }
     } finally {
-      busy = false;
+      inflight = null;
     }
+  };
+  /** One read at a time: a call while one runs waits for that one. */
+  const poll = (): Promise<void> => {
+    if (stopped) return Promise.resolve();
+    inflight ??= readNew();
+    return inflight;
   };
 
   const timer = setInterval(() => { void poll().catch((err: unknown) => problem(err instanceof Error ? err.message : String(err))); }, intervalMs);
