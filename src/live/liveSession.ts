@@ -81,7 +81,7 @@ export interface Snapshot {
 
 const RING_SECONDS = 120;
 const GRID_FRAMES = 150;
-const FIND_EVERY_MS = 2000;
+const FIND_EVERY_MS = 1000;
 
 function grow(r: Rect, by: number, w: number, h: number): Rect {
   const x0 = Math.max(0, r.x - by);
@@ -363,6 +363,12 @@ export class LiveSession {
     this.beamSrc = src;
     this.beamHow = how;
     this.rings = { a0, a1, b1, coefficients: sw.coefficients };
+    if (this.openLevel !== null || this.openCapture !== null) {
+      // The open level is beam minus surround of one region; another region reads another level.
+      this.openLevel = null;
+      this.openCapture = null;
+      this.o.say('the beam region changed: capture the open level again');
+    }
     this.resetSeries();
     if (!this.darkGiven) this.pickDark();
     this.rebuildMeter();
@@ -436,7 +442,7 @@ export class LiveSession {
     for (let c = 1; c < this.cells; c++) if (map[c]! > map[peak]!) peak = c;
     const med = median(map);
     if (!(map[peak]! - med > 0.01)) return;
-    const { box } = floodFill(map, gw, gh, peak, med + 0.5 * (map[peak]! - med));
+    const { box } = floodFill(map, gw, gh, peak, med + 0.25 * (map[peak]! - med));
     const live = cellBoxToRect(box, step);
     if (this.beam && this.beamHow === 'brightest' && rectText(live) === rectText(this.beam)) return;
     this.applyBeam(live, this.toSource(live), 'brightest');

@@ -43,7 +43,7 @@ const bench = (drive: unknown, extra: Record<string, unknown> = {}, cell: Record
   ...extra,
 });
 const CLOSED_S = 2;
-const OPEN_S = 2;
+const OPEN_S = 4;
 const SWEEP_START_S = CLOSED_S + OPEN_S;
 
 interface Watch {
@@ -165,9 +165,10 @@ describe.skipIf(skip)('kerrtrace watch in a browser', () => {
       await page.screenshot({ path: join(SHOTS, 'live-setup.png'), fullPage: true });
 
       // Open phase: capture the open level once a beam region exists.
-      await waitFor('the open phase and a beam region', async () => (await frames()) >= (CLOSED_S + 0.8) * 30 && (await state(watch.url)).regions.beam !== null);
+      // The beam is found where the light changed (closed → open); its open level is captured.
+      await waitFor('the open phase and the beam found', async () => (await frames()) >= (CLOSED_S + 0.5) * 30 && (await state(watch.url)).regions.beamHow === 'found');
       await page.click('#capture-open');
-      await waitFor('the open level', async () => (await state(watch.url)).openLevel !== null, 10_000);
+      const openLevel = await waitFor('the open level', async () => (await state(watch.url)).openLevel as number | null, 10_000);
 
       // Sweep: record it.
       await waitFor('the sweep', async () => (await frames()) >= SWEEP_START_S * 30 + 3);
@@ -187,6 +188,13 @@ describe.skipIf(skip)('kerrtrace watch in a browser', () => {
       // The meters moved: extinction is now a closed/open ratio, the frame count has grown, the strip chart has data.
       const metersInSweep = await page.locator('#meters li').allInnerTexts();
       expect(metersInSweep[0]).toMatch(/closed\/open 1 : /);
+      // The open level (captured in the open phase) is the top of the sweep's fitted curve, floor +
+      // amplitude, since the sweep passed V_π: within 10 %.
+      const top = fit.curve.intensity.reduce((a: number, b: number) => Math.max(a, b), 0);
+      expect(openLevel / top).toBeGreaterThan(0.9);
+      expect(openLevel / top).toBeLessThan(1.1);
+      // the simulated liquid scatters (floor ≈ 0.7 % of the open level): fair, not good
+      expect(metersInSweep[0]).toMatch(/FAIR/i);
       expect(metersInSweep).not.toEqual(metersAtSetup);
       expect(metersInSweep[4]).toMatch(/\d+ rows/);
       expect(Number(await page.locator('#strip').getAttribute('data-points'))).toBeGreaterThan(100);
