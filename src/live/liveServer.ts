@@ -6,7 +6,7 @@
  * Safety of a local server:
  * - listens on 127.0.0.1 unless another address is asked for; then every request must carry the
  *   random access token (`?t=…`) printed with the address;
- * - the Host header must name this server (no DNS rebinding), the buttons are POSTs that need a
+ * - on loopback the Host header must name this server (no DNS rebinding); the buttons are POSTs that need a
  *   custom header (a page elsewhere cannot send it without a preflight this server never grants);
  * - every answer carries a strict Content-Security-Policy: scripts, styles, images and
  *   connections from this server only, no inline script, no frames, no forms, no plugins.
@@ -118,7 +118,9 @@ export async function startLiveServer(o: LiveServerOptions): Promise<LiveServer>
   });
 
   async function handle(req: IncomingMessage, res: ServerResponse): Promise<void> {
-    if (!allowedHosts().has(String(req.headers.host ?? ''))) return send(res, 421, 'text/plain; charset=utf-8', 'wrong host\n');
+    // On loopback the Host header must name this server (a page elsewhere cannot rebind a name to
+    // 127.0.0.1 and read it); served beyond this computer, the secret token does that job.
+    if (o.token === null && !allowedHosts().has(String(req.headers.host ?? ''))) return send(res, 421, 'text/plain; charset=utf-8', 'wrong host\n');
     const url = new URL(req.url ?? '/', `http://127.0.0.1:${port}`);
     if (o.token !== null && url.searchParams.get('t') !== o.token) return send(res, 403, 'text/plain; charset=utf-8', 'this page needs the access token printed by kerrtrace watch\n');
     const method = req.method ?? 'GET';

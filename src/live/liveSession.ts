@@ -486,8 +486,17 @@ export class LiveSession {
     const t = this.tRing.toArray();
     const i = this.iRing.toArray();
     const u = Uint8Array.from(this.useRing.toArray());
-    const logT = this.logT.toArray();
-    const logV = this.logV.toArray();
+    let logT = this.logT.toArray();
+    let logV = this.logV.toArray();
+    // Once an offset is known, search near it: the log may hold an hour, the frames two minutes.
+    const previous = this.fitResult && this.fitResult.status === 'ok' ? this.fitResult.offsetS : null;
+    if (previous !== null && t.length > 0) {
+      const lo = t[0]! - previous - 60, hi = t[t.length - 1]! - previous + 60;
+      let a = 0, b = logT.length;
+      while (a < b && logT[a]! < lo) a++;
+      while (b > a && logT[b - 1]! > hi) b--;
+      if (b - a >= 5) { logT = logT.subarray(a, b); logV = logV.subarray(a, b); }
+    }
     const gapM = Number(this.o.gapMm) * 1e-3;
     const effM = Number(this.o.effectiveLengthMm ?? this.o.lengthMm) * 1e-3;
     this.fitResult = liveFit({ frameTimesS: t, intensity: i, usable: u, logTimeS: logT, logVoltageV: logV, gapM, effectiveLengthM: effM, polariserAngleDeg: this.o.polariserAngleDeg });
