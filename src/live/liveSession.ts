@@ -431,7 +431,7 @@ export class LiveSession {
       if (!(found.peakRange >= 0.02 && found.peakRange >= 0.3 * mean[peakCell]!)) throw new KerrError('BAD_REGION', 'no clear modulation yet');
       const live = cellBoxToRect(found.beam, step);
       this.applyBeam(live, this.toSource(live), 'found');
-      this.o.say(`beam found where the light changes: --roi ${rectText(this.beamSrc!)}`);
+      this.o.say(`beam found where the light changes at ${formatNumber(this.lastFrameT)} s: --roi ${rectText(this.beamSrc!)}`);
       return;
     } catch (err) {
       if (!isKerrError(err)) throw err;
