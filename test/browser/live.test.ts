@@ -113,7 +113,7 @@ describe.skipIf(skip)('kerrtrace watch in a browser', () => {
       { kind: 'hold', durationS: 0.5 },
       { kind: 'ramp', toHalfWaveFraction: 1.15, durationS: 4 },
       { kind: 'ramp', toV: 0, durationS: 4 },
-      { kind: 'hold', durationS: 2 }] };
+      { kind: 'hold', durationS: 3 }] };
     sweepDir = join(dir, 'sweep');
     await Promise.all([
       simulateRun(parseScenario(bench(hold(CLOSED_S), { seed: 910 }), 'closed'), join(dir, 'closed')),
@@ -183,6 +183,10 @@ describe.skipIf(skip)('kerrtrace watch in a browser', () => {
 
       // By the end of the sweep (the drive back at zero) the running B is within 3 % of the truth.
       await waitFor('the end of the sweep', async () => (await frames()) >= (SWEEP_START_S + 8.8) * 30, 30_000);
+      // Stop the recording from the page: the analyze command is printed there and on stdout
+      // (checked below, once the fit has been looked at).
+      await waitFor('the stop button', async () => (await page.locator('#record').innerText()) === 'Stop recording', 5_000);
+      await page.click('#record');
       const fit = await waitFor('a fit that covers the sweep', async () => {
         const s = await state(watch.url);
         return s.fit?.status === 'ok' && s.fit.maxVoltageOverHalfWave > 1.1 && s.fit.updatedAgoS < 1 ? s.fit : null;
@@ -206,9 +210,6 @@ describe.skipIf(skip)('kerrtrace watch in a browser', () => {
       expect(Number(await page.locator('#strip').getAttribute('data-points'))).toBeGreaterThan(100);
       await page.screenshot({ path: join(SHOTS, 'live-sweep.png'), fullPage: true });
 
-      // Stop the recording from the page: the analyze command is printed there and on stdout.
-      await waitFor('the stop button', async () => (await page.locator('#record').innerText()) === 'Stop recording', 5_000);
-      await page.click('#record');
       const command = await waitFor('the analyze command', async () => {
         const t = await page.locator('#command').innerText();
         return t.startsWith('kerrtrace analyze') ? t : null;
