@@ -49,6 +49,7 @@ export const LIVE_PAGE_SCRIPT = String.raw`
     $('record').className = rec.active ? 'on' : '';
     $('record-status').textContent = rec.active ? 'recording ' + fmt(rec.seconds, 3) + ' s into ' + rec.dir : (rec.error || '');
     if (rec.last) $('command').textContent = rec.last.command;
+    if (!s.capturingOpen && $('region-note').textContent.indexOf('capturing the open level') === 0) note('');
     renderFitText(s);
     drawStrip(s.strip);
     drawFit(s.fit);
