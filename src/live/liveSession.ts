@@ -625,7 +625,8 @@ export class LiveSession {
     if (this.idleTimer || this.closed) return;
     this.idleTimer = setTimeout(() => {
       this.idleTimer = null;
-      if (this.clients > 0 || this.staged || !this.run) return;
+      if (this.clients > 0 || !this.run) return;
+      if (this.staged) { this.setClients(0); return; } // not while recording: look again later
       this.paused = true;
       void this.queue(() => this.stopRun());
       this.o.say(`no page open for ${this.o.idleS} s: camera released (open the page again to resume)`);
