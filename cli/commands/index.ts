@@ -8,6 +8,7 @@ import { register as inspect } from './inspect.js';
 import { register as simulate } from './simulate.js';
 import { register as stills } from './stills.js';
 import { register as trace } from './trace.js';
+import { register as watch } from './watch.js';
 
 /** Registers every command; each command file exports `register(program)`. */
 export function registerCommands(program: Command): void {
@@ -20,4 +21,5 @@ export function registerCommands(program: Command): void {
   stills(program);
   design(program);
   calibrateCamera(program);
+  watch(program);
 }
