@@ -62,13 +62,14 @@ describe('kerrtrace analyze (command line)', { tags: [benchClipTag('green_ramps'
     const result = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
     expect(result.identifiable).toBe(true);
     expectHeadlineMatchesTruth(result, truth);
-    // The screen shows the same figures to three significant digits (cli/summaryText.ts) and the
-    // standard error to two: each printed number lies within half a unit of its last digit.
+    // The screen shows the standard error to two significant digits and the value rounded to the
+    // same decimal place (GUM §7.2.6; src/quantity.ts): each printed number lies within half a
+    // unit of the error's last digit.
     const rows = [['Kerr constant B', 'kerrConstant'], ['half-wave voltage', 'halfWaveVoltage'], ['floor fraction', 'floorFraction'], ['contrast ratio', 'contrastRatio'], ['sync offset', 'syncOffset']] as const;
     const halfUnit = (x: number, digits: number): number => 0.5 * 10 ** (Math.floor(Math.log10(Math.abs(x))) - digits + 1);
     for (const [row, key] of rows) {
       const shown = printed(r.stdout, row);
-      expect(Math.abs(shown.value - result[key].value), row).toBeLessThanOrEqual(halfUnit(result[key].value, 3) * (1 + 1e-9));
+      expect(Math.abs(shown.value - result[key].value), row).toBeLessThanOrEqual(halfUnit(result[key].stdErr, 2) * (1 + 1e-9));
       expect(Math.abs(shown.stdErr - result[key].stdErr), `${row}: standard error`).toBeLessThanOrEqual(halfUnit(result[key].stdErr, 2) * (1 + 1e-9));
     }
     expect(result.kerrConstant.unit).toBe('m/V^2');
