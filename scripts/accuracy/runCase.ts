@@ -29,7 +29,7 @@ export interface CaseOutcome {
   /** Gates the run failed. */
   failures: string[];
   /** Residual RMS over frame noise, effective frames, lag-1 autocorrelation (for tuning the gates). */
-  diagnostics?: { residualOverFrameNoise: number; effectiveFrames: number; rho: number; budgetB: Record<string, number> };
+  diagnostics?: { bitsPerPixel: number; residualOverFrameNoise: number; effectiveFrames: number; rho: number; budgetB: Record<string, number> };
   figures: Partial<Record<'B' | 'Vpi' | 'offset' | 'floor', FigureOutcome>>;
   seconds: number;
 }
@@ -58,7 +58,7 @@ export async function runCase(c: AccuracyCase, workDir: string): Promise<CaseOut
       warnings: result.warnings.map((w) => w.code),
       failures: (result.validity?.failures ?? []).map((f) => f.gate),
       diagnostics: {
-        residualOverFrameNoise: result.fit.residualOverFrameNoise ?? NaN, effectiveFrames: result.fit.effectiveFrames ?? NaN, rho: result.fit.residualAutocorrelation,
+        bitsPerPixel: result.camera.bitsPerPixel ?? NaN, residualOverFrameNoise: result.fit.residualOverFrameNoise ?? NaN, effectiveFrames: result.fit.effectiveFrames ?? NaN, rho: result.fit.residualAutocorrelation,
         budgetB: Object.fromEntries((result.uncertainty?.kerrConstant.terms ?? []).map((t) => [t.name, t.relative])),
       },
       figures: {

@@ -740,6 +740,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
 
   const temperature = log.temperatureC ? meanSd(log.temperatureC) : null;
   // ---- uncertainty budget and gates ----
+  const bitsPerPixel = (statSync(o.videoPath).size * 8) / (nFrames * info.width * info.height);
   const offsetU = syncOffsetUncertaintyS(offsetStdErrS, fit.errorInflation, times);
   const uncertainty = runUncertainty({
     fit,
@@ -757,7 +758,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     kerrConstant: fit.kerrConstant.value, kerrConstantStdErr: uncertainty.kerrConstant.combinedStdErr,
     halfWaveVoltageV: fit.halfWaveVoltage.value, halfWaveStdErrV: uncertainty.halfWaveVoltage.combinedStdErr,
     converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
-    residualRms: fit.intensityNoise, frameNoise: noiseOfFrames, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
+    residualRms: fit.intensityNoise, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
   });
   warnings.push(...gates.warnings);
   const kerrQ: Quantity = quantity(fit.kerrConstant.value, uncertainty.kerrConstant.combinedStdErr, 'm/V^2');
@@ -772,7 +773,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     inputs: {},
     options: { ...o },
     cell: { lengthM, effectiveLengthM, gapM, polariserAngleDeg, electrodeHeightM: o.electrodeHeightMm !== undefined ? o.electrodeHeightMm * MM : null, wavelengthNm: o.wavelengthNm ?? null },
-    camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range },
+    camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range, bitsPerPixel },
     regions: {
       beam: beamRect, beamAuto,
       ...(o.darkRoi ? { dark: o.darkRoi } : {}),

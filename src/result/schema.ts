@@ -81,6 +81,8 @@ export interface RunResult {
     variableFrameRate: boolean;
     transfer: string;
     range: string;
+    /** File bits per pixel per frame (size·8/(frames·width·height)); low values mean starved compression (version 2). */
+    bitsPerPixel?: number;
   };
   regions: { beam: Rect; beamAuto: boolean; dark?: Rect; surround?: Rect; reference?: Rect };
 

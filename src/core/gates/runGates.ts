@@ -12,6 +12,10 @@
  *   spark do not count) exceeds RESIDUAL_EXCESS_LIMIT × the frame-to-frame noise (frameNoise) — the model does not describe the data: a log from another recording, a
  *   wrong sync, a wrong branch. Compression-correlated residuals stay well below this limit.
  * - sync-ambiguous: the sync search found a runner-up as good as the best offset.
+ * - compression-starved: the file holds fewer than STARVED_BITS_PER_PIXEL bits per pixel per
+ *   frame. Starved H.264 flattens a dim spot, lets it brighten frames late and makes the dark level
+ *   depend on history: in the coverage study (docs/uncertainty.md) runs below this rate were off
+ *   by up to 7σ while the rest were covered.
  * Warnings (not gates): a Kerr constant outside the range of the built-in liquid table by more than
  * 10× either way (`implausibleRangeMPerV2`).
  * Pure; throws nothing.
@@ -19,6 +23,7 @@
 import type { RunGateFailure, RunWarning } from '../../result/schema.js';
 
 export const RESIDUAL_EXCESS_LIMIT = 4;
+export const STARVED_BITS_PER_PIXEL = 0.025;
 
 export interface GateInput {
   kerrConstant: number;
@@ -33,6 +38,8 @@ export interface GateInput {
   residualRms: number;
   frameNoise: number;
   syncAmbiguous: boolean;
+  /** File bits per pixel per frame. */
+  bitsPerPixel: number;
   /** [lowest, highest] Kerr constant of the built-in liquid table, m/V². */
   plausibleRangeMPerV2: [number, number];
 }
@@ -50,6 +57,9 @@ export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: 
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
   }
   if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give --offset-s or record a drive without repeats');
+  if (Number.isFinite(g.bitsPerPixel) && g.bitsPerPixel < STARVED_BITS_PER_PIXEL) {
+    fail('compression-starved', `the clip holds only ${g.bitsPerPixel.toFixed(3)} bits per pixel per frame, so compression flattens the spot and delays its changes; record at a higher bitrate or quality setting`);
+  }
   const [lo, hi] = g.plausibleRangeMPerV2;
   if (Number.isFinite(g.kerrConstant) && g.kerrConstant > 0 && (g.kerrConstant < lo / 10 || g.kerrConstant > hi * 10)) {
     warnings.push({ code: 'implausible-kerr-constant', message: `B = ${g.kerrConstant.toExponential(2)} m/V² is more than 10× outside the range of the built-in liquid table (${lo.toExponential(1)}–${hi.toExponential(1)} m/V²); check the units of the log (V, kV) and of --length-mm and --gap-mm` });
