@@ -12,6 +12,7 @@
  * drawn, and no frame rate.
  * @example runReportHtml({ result, plots, images: {}, hrefFor: (a) => `guide.md#${a}` }) starts with "<!DOCTYPE html>"
  */
+import { budgetTableHtml } from './budgetTableHtml.js';
 import { formatNumber, type Quantity } from '../quantity.js';
 import type { InputFile, RunResult } from '../result/schema.js';
 import { figure, formatFigure, type FigureDefinition } from './figureCatalogue.js';
@@ -156,6 +157,7 @@ ${c.note === undefined ? null : html`<tr><th>Note</th><td>${c.note}</td></tr>`}<
 Cell: length ${formatNumber(r.cell.lengthM * 1000, 4)} mm, effective length ${formatNumber(r.cell.effectiveLengthM * 1000, 4)} mm, gap ${formatNumber(r.cell.gapM * 1000, 4)} mm, polariser at ${formatNumber(r.cell.polariserAngleDeg, 4)}° to the field${r.cell.wavelengthNm === null ? '' : `, light ${formatNumber(r.cell.wavelengthNm, 4)} nm`}.</p>
 ${notIdentifiable}
 <div class="cards">${cards}</div>
+${budgetTableHtml(r)}
 ${extra}
 </section>`;
 }
