@@ -751,6 +751,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     gapM, gapToleranceM: (o.gapToleranceMm ?? 0) * MM,
     lengthM: effectiveLengthM, lengthToleranceM: (o.lengthToleranceMm ?? 0) * MM,
     ...(o.cameraResponseRel !== undefined ? { cameraResponseRel: o.cameraResponseRel } : {}),
+    frames: { voltageV: voltage, intensity, include: Uint8Array.from(excluded, (e) => (e ? 0 : 1)), timesS: times },
   });
   const noiseOfFrames = frameNoise(Float64Array.from(useIdx, (f) => intensity[f]!));
   const liquidRange = liquidKerrRange();

@@ -7,6 +7,7 @@
  * kerrUncertaintyBudget (GUM). Pure apart from calling the fit.
  */
 import { fitKerrCurve, type KerrCurveFit, type KerrCurveInput } from '../core/fit/fitKerrCurve.js';
+import { hysteresis } from '../core/scatter/hysteresis.js';
 import { kerrUncertaintyBudget, rectangularRelative, type UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
 export interface RunUncertaintyInput {
@@ -27,6 +28,32 @@ export interface RunUncertaintyInput {
   lengthToleranceM: number;
   /** Relative standard uncertainty the camera response puts on B, when known. */
   cameraResponseRel?: number;
+  /** Every frame (time order) for the rising/falling comparison; omitted: no ramp term. */
+  frames?: { voltageV: Float64Array; intensity: Float64Array; include: Uint8Array; timesS: Float64Array };
+}
+
+/**
+ * Relative systematic on V_π from rising and falling ramps disagreeing beyond their statistics:
+ * each branch fitted with the amplitude held at the full fit's (core/scatter/hysteresis), then
+ * √max(0, (ΔV_π/2)² − (σ_ΔV_π/2)²)/V_π.
+ */
+function rampConsistency(i: RunUncertaintyInput): { rel: number; note: string } {
+  const fr = i.frames;
+  if (!fr) return { rel: 0, note: 'rising and falling ramps not compared' };
+  const vpi = i.fit.halfWaveVoltage.value;
+  const { voltageSigmaV: _perFrame, intensity: _used, ...base } = i.fitInput;
+  const h = hysteresis({
+    ...fr,
+    fitBranch: (v, y) => fitKerrCurve({
+      ...base, voltageV: v, intensity: y, openLevel: i.fit.amplitude.value,
+      halfWaveGuessesV: [vpi], onlyGivenStarts: true, robust: false,
+    }),
+  });
+  if (!h.halfWaveUp || !h.halfWaveDown) return { rel: 0, note: `rising and falling ramps not compared: ${h.note ?? 'too few frames on one of them'}` };
+  const half = (h.halfWaveUp.value - h.halfWaveDown.value) / 2;
+  const sHalf = Math.hypot(h.halfWaveUp.stdErr ?? 0, h.halfWaveDown.stdErr ?? 0) / 2;
+  const rel = Math.sqrt(Math.max(0, half * half - sHalf * sHalf)) / vpi;
+  return { rel, note: `V_π from rising ramps ${h.halfWaveUp.value.toFixed(0)} V, falling ${h.halfWaveDown.value.toFixed(0)} V: the excess of their half-difference over its statistics` };
 }
 
 export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: UncertaintyBudget; halfWaveVoltage: UncertaintyBudget } {
@@ -55,9 +82,10 @@ export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: Uncertai
     syncNote = `V_π refitted at the sync offset ± ${(i.offsetStdErrS * 1000).toFixed(1)} ms`;
   }
   const voltageCalibrationRel = rectangularRelative(i.voltsAccuracyPercent, 100);
+  const ramp = rampConsistency(i);
   return kerrUncertaintyBudget({
     kerrConstant: i.fit.kerrConstant.value, halfWaveVoltageV: vpi, statisticalRel,
-    syncRel, syncNote,
+    syncRel, syncNote, rampRel: ramp.rel, rampNote: ramp.note,
     voltageCalibrationRel,
     voltageCalibrationNote: i.voltsAccuracyPercent > 0 ? `logger accuracy ±${i.voltsAccuracyPercent} % of reading (rectangular, /√3)` : 'logger accuracy given as 0',
     gapRel: rectangularRelative(i.gapToleranceM, i.gapM),
