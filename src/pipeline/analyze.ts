@@ -23,6 +23,7 @@ import { exposureGains } from '../measure/exposure.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
+import { checkLogUnits } from '../core/signal/checkLogUnits.js';
 import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { findBeam } from '../core/regions/findBeam.js';
@@ -292,6 +293,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const log: VoltageLog = await readVoltageLog(o.voltsPath);
   let vAbsMax = 0;
   for (const v of log.voltageV) vAbsMax = Math.max(vAbsMax, Math.abs(v));
+  checkLogUnits({ timeS: log.timeS, voltageV: log.voltageV, timeColumn: log.columns.time, videoDurationS: info.durationS, gapM: o.gapMm * MM, file: o.voltsPath });
   if (!(vAbsMax > 0)) {
     throw new KerrError('NOT_IDENTIFIABLE', `the voltage log ${o.voltsPath} never leaves zero`, { path: '--volts', hint: 'Check the voltage column and its unit, or record a sweep' });
   }
