@@ -29,7 +29,8 @@ function scenario(seed: number, drive: unknown, logger: Record<string, unknown>)
 const triangle = { segments: [{ kind: 'hold', durationS: 1 }, { kind: 'ramp', toHalfWaveFraction: 1.1, durationS: 3 }, { kind: 'ramp', toV: 0, durationS: 3 }, { kind: 'hold', durationS: 1 }] };
 function slowSine(peakV: number) {
   const points = [];
-  for (let k = 0; k <= 400; k++) { const t = k * 0.02; const x = Math.min(Math.max(0, (t - 1) / 6), 1); points.push({ timeS: t, voltageV: peakV * Math.sin(Math.PI * x) ** 2 }); }
+  // three arcs of sin² over 6 s (2 s each): a 2 Hz log has four samples per arc
+  for (let k = 0; k <= 400; k++) { const t = k * 0.02; const x = Math.min(Math.max(0, (t - 1) / 6), 1); points.push({ timeS: t, voltageV: peakV * Math.sin(3 * Math.PI * x) ** 2 }); }
   return { points };
 }
 const VPI = 0.004 / Math.sqrt(2 * 2.2e-12 * 0.04); // 9534 V
@@ -50,12 +51,12 @@ function rewriteLog(dir: string, name: string, f: (rows: string[][]) => string[]
 }
 
 describe('issue 12: honest numbers on simulated runs', () => {
-  it('a slow sine logged at 2 Hz: B within 1.5 % and within 3σ (linear interpolation read |V| low, B +5.7 %)', async () => {
+  it('a sine logged at 2 Hz (four samples per arc): monotone cubic reading (|error| −2.7 %, straight chords gave +4.0 %) and an uncertainty that covers it', async () => {
     const { dir, truth } = await render('sine2hz', scenario(31, slowSine(1.1 * VPI), { sampleRateHz: 2, clockOffsetS: 0.3 }));
     const { result } = await analyzeRun(options(dir, truth.roi), hooks);
     const err = result.kerrConstant.value / truth.B - 1;
-    expect(Math.abs(err)).toBeLessThan(0.015);
-    expect(Math.abs(result.kerrConstant.value - truth.B) / result.kerrConstant.stdErr!).toBeLessThan(3);
+    expect(Math.abs(err)).toBeLessThan(0.033); // measured −2.68 % (this seed); the straight-line reading gave +3.96 %
+    expect(Math.abs(result.kerrConstant.value - truth.B) / result.kerrConstant.stdErr!).toBeLessThan(2);
   }, 60_000);
 
   it('a logger dropout over the peak: the frames in it are left out and counted ("log-gap"), B stays right', async () => {
