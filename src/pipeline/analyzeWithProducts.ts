@@ -31,7 +31,8 @@ export async function analyzeWithProducts(o: AnalyzeOptions, hooks: AnalyzeHooks
   if (p.products === false) return { out, products: null };
   const products = await computeScatterProducts(out, {
     videoPath: o.videoPath,
-    gain: out.gain,
+    // gains exist only with a reference region (without one they are all 1 and correct nothing)
+    ...(o.referenceRoi ? { gain: out.gain } : {}),
     log: out.log,
     ...(p.baseline ? { baseline: p.baseline } : {}),
   });

@@ -159,7 +159,9 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   const jumps = detectExposureJumps({ level: drift.driveFreeLevel, skip: Uint8Array.from(notSpark, (k) => 1 - k) });
   const jumpFrame = new Uint8Array(frames);
   for (const j of jumps) jumpFrame[j.frameIndex] = 1;
-  const haveReference = givenReference !== undefined || opts.gain !== undefined;
+  // Only a reference region corrects exposure: without one, say so (exposure-drift), never that
+  // jumps "remain after the reference correction".
+  const haveReference = givenReference !== undefined;
   if (!haveReference && (drift.drifting || jumps.length > 0)) {
     const parts: string[] = [];
     if (drift.drifting) parts.push(`the background outside the beam varies by ${((drift.ratio - 1) * 100).toFixed(0)}% (95th/5th percentile) without following the drive`);

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseScenario } from '../../src/sim/scenario.js';
 import { simulateRun } from '../../src/sim/simulate.js';
 import { analyzeRun, checkAnalyzeOptions, type AnalyzeOptions } from '../../src/pipeline/analyze.js';
+import { analyzeWithProducts } from '../../src/pipeline/analyzeWithProducts.js';
 
 const hooks = { toolVersion: 'test', ffmpegVersion: null };
 let work: string;
@@ -83,6 +84,16 @@ describe('issue 12: honest numbers on simulated runs', () => {
     await expect(analyzeRun({ ...options(dir, truth.roi), voltsPath: huge }, hooks)).rejects.toThrow(/no liquid holds that/);
     const ms = rewriteLog(dir, 'ms.csv', (rows) => rows.map((r, k) => (k === 0 ? ['time', 'voltage'] : [String(Math.round(Number(r[0]) * 1000)), r[1]!])));
     await expect(analyzeRun({ ...options(dir, truth.roi), voltsPath: ms }, hooks)).rejects.toThrow(/looks like milliseconds/);
+  }, 60_000);
+
+  it('exposure warnings match the run: auto-exposure without a reference region says "exposure-drift", never "after the reference correction"', async () => {
+    const json = scenario(36, triangle, { sampleRateHz: 10, clockOffsetS: 0 }) as { camera: Record<string, unknown> };
+    json.camera.autoExposure = { targetMean: 0.03, lagS: 0.3 };
+    const { dir, truth } = await render('autoexp', json);
+    const { out } = await analyzeWithProducts(options(dir, truth.roi), hooks);
+    const codes = out.result.warnings.map((w) => w.code);
+    expect(codes).toContain('exposure-drift');
+    expect(out.result.warnings.some((w) => /after the reference correction/.test(w.message))).toBe(false);
   }, 60_000);
 
   it('refuses a length or gap in the wrong unit (--length-mm 1e9, --gap-mm 1e-9)', () => {
