@@ -9,10 +9,13 @@
  *   B = d²/(2·L_eff·V_π²),  σ_B/B = 2·σ_Vπ/V_π.
  *
  * Several V_π starts (log-spaced, plus any caller hint) keep the fit off wrong branches of sin²;
- * the best converged start is refined with Huber weights (iteratively reweighted). When the
+ * a start that hits its iteration limit is continued from where it stopped, every start is kept
+ * in `startResults`, and the best by residual (see betterStart) is refined with Huber weights
+ * (iteratively reweighted). When the
  * amplitude is known from an open measurement it is held fixed, which removes the amplitude/V_π
  * trade-off of low sweeps. Identifiability is judged from the fit itself: the amplitude–V_π
- * correlation and B's relative standard error.
+ * correlation and B's relative standard error. Standard errors are widened for residuals
+ * correlated between frames (core/uncertainty/correlatedErrorInflation: per parameter, HAC).
  *
  * Pure: no I/O. Throws KerrError FIT_FAILED when no start converges, NOT_IDENTIFIABLE callers
  * decide (the result carries `identifiable`).
@@ -82,6 +85,18 @@ export interface FitStart {
 }
 
 const DEG = Math.PI / 180;
+
+/**
+ * Whether start result a beats b. Same status: the lower residual. A start that did not converge
+ * (even after refining) beats a converged one only with a residual lower by more than
+ * UNCONVERGED_MARGIN (1 %): a clearly better fit is not dropped for its status, while a ridge that
+ * creeps towards a bound (a sweep too low to fix V_π) does not replace a converged minimum.
+ */
+const UNCONVERGED_MARGIN = 0.01;
+function betterStart(a: LmResult, b: LmResult): boolean {
+  if (a.converged === b.converged) return a.rss < b.rss;
+  return a.converged ? a.rss <= b.rss * (1 + UNCONVERGED_MARGIN) : a.rss < b.rss * (1 - UNCONVERGED_MARGIN);
+}
 
 /** sin²(2θ) factor and static retardance folded into a model with parameters [floor, amp, vpi] or [floor, vpi]. */
 function makeModel(angleFactor: number, staticRad: number, fixedAmp: number | null): CurveModel {
@@ -239,8 +254,7 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
     }
     if (!Number.isFinite(res.rss)) continue;
     startResults.push({ rss: res.rss, converged: res.converged, reason: res.reason, halfWaveV: res.params[nParams - 1]! });
-    // Best = lowest residual; between residuals equal to 1e-9 a converged start wins.
-    if (best === null || res.rss < best.res.rss * (1 - 1e-9) || (res.rss <= best.res.rss * (1 + 1e-9) && res.converged && !best.res.converged)) {
+    if (best === null || betterStart(res, best.res)) {
       best = { res, start: Array.from(res.params) };
     }
   }
