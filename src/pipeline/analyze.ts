@@ -761,7 +761,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     kerrConstant: fit.kerrConstant.value, kerrConstantStdErr: uncertainty.kerrConstant.combinedStdErr,
     halfWaveVoltageV: fit.halfWaveVoltage.value, halfWaveStdErrV: uncertainty.halfWaveVoltage.combinedStdErr,
     converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
-    residualRms: fit.intensityNoise, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
+    residualRms: fit.intensityNoise, signalAmplitude: fit.amplitude.value, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
   });
   warnings.push(...gates.warnings);
   const kerrQ: Quantity = quantity(fit.kerrConstant.value, uncertainty.kerrConstant.combinedStdErr, 'm/V^2');

@@ -24,6 +24,7 @@ import type { RunGateFailure, RunWarning } from '../../result/schema.js';
 
 export const RESIDUAL_EXCESS_LIMIT = 4;
 export const STARVED_BITS_PER_PIXEL = 0.025;
+export const RESIDUAL_SIGNAL_FRACTION = 0.02;
 
 export interface GateInput {
   kerrConstant: number;
@@ -36,6 +37,8 @@ export interface GateInput {
   maxVoltageOverHalfWave: number;
   /** Robust scale of the fit's residuals (same units as the intensity). */
   residualRms: number;
+  /** Fitted modulation amplitude (same units), the size of the signal. */
+  signalAmplitude: number;
   frameNoise: number;
   syncAmbiguous: boolean;
   /** File bits per pixel per frame. */
@@ -53,7 +56,7 @@ export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: 
   }
   if (!g.converged) fail('fit-not-converged', `the fit stopped without converging (${g.fitReason})`);
   if (!g.identifiable) fail('not-identifiable', `the sweep reaches about ${(100 * g.maxVoltageOverHalfWave).toFixed(0)} % of the half-wave voltage, too little to separate brightness from V_π without an open level`);
-  if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise) {
+  if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
   }
   if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give --offset-s or record a drive without repeats');

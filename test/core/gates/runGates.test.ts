@@ -5,7 +5,7 @@ import { frameNoise } from '../../../src/core/gates/frameNoise.js';
 
 const clean: GateInput = {
   kerrConstant: 2.2e-12, kerrConstantStdErr: 2e-14, halfWaveVoltageV: 9800, halfWaveStdErrV: 40, converged: true, fitReason: 'xtol',
-  identifiable: true, maxVoltageOverHalfWave: 1.1, residualRms: 0.002, frameNoise: 0.001, syncAmbiguous: false, bitsPerPixel: 0.5,
+  identifiable: true, maxVoltageOverHalfWave: 1.1, residualRms: 0.002, signalAmplitude: 0.3, frameNoise: 0.001, syncAmbiguous: false, bitsPerPixel: 0.5,
   plausibleRangeMPerV2: [4.4e-14, 2.4e-12],
 };
 
@@ -18,7 +18,8 @@ describe('runGates', () => {
     expect(gate({ kerrConstant: NaN })).toContain('figures-finite');
     expect(gate({ converged: false, fitReason: 'max-iterations' })).toContain('fit-not-converged');
     expect(gate({ identifiable: false, maxVoltageOverHalfWave: 0.2 })).toContain('not-identifiable');
-    expect(gate({ residualRms: 0.011 })).toContain('residual-excess'); // 11× the frame noise (issue 12)
+    expect(gate({ residualRms: 0.011 })).toContain('residual-excess'); // 11× the frame noise (issue 12), 3.7 % of the signal
+    expect(gate({ residualRms: 0.005 })).not.toContain('residual-excess'); // 5× the frame noise but 1.7 % of the signal
     expect(gate({ syncAmbiguous: true })).toContain('sync-ambiguous');
     expect(gate({ bitsPerPixel: 0.01 })).toContain('compression-starved');
   });
