@@ -23,6 +23,7 @@ import { exposureGains } from '../measure/exposure.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
+import { checkOpenLevel } from '../core/gates/checkOpenLevel.js';
 import { checkLogUnits } from '../core/signal/checkLogUnits.js';
 import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
@@ -77,6 +78,13 @@ export interface AnalyzeOptions {
   /** Relative standard uncertainty the camera response puts on B, when a response check gave one. */
   cameraResponseRel?: number;
 }
+
+/**
+ * Frames within this many seconds either side of --open-window are left out of the sync and the fit
+ * (reason "open-turning"): turning an analyser by hand between parallel and crossed takes about a
+ * second, and those frames are neither (this tool's documented margin).
+ */
+export const OPEN_TURNING_MARGIN_S = 1.5;
 
 /** Default logger accuracy, ± percent of reading: a typical high-voltage divider and meter (common practice). */
 export const DEFAULT_VOLTS_ACCURACY_PERCENT = 1;
@@ -145,6 +153,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   const opens = [o.openWindowS, o.openVideoPath, o.openLevel].filter((x) => x !== undefined).length;
   if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
+  if (o.openVideoPath !== undefined && resolve(o.openVideoPath) === resolve(o.videoPath)) throw new KerrError('BAD_ARGUMENT', `the open video ${o.openVideoPath} is the run's own clip`, { path: '--open-video', hint: 'Give a separate clip recorded with the analyser parallel and no field, or --open-window START:END for a part of this clip' });
   if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
 }
@@ -476,6 +485,9 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       if (times[f]! >= a && times[f]! <= b) {
         if (!excluded[f]) vals.push(intensity[f]!);
         excluded[f] = 'open-window';
+      } else if (times[f]! >= a - OPEN_TURNING_MARGIN_S && times[f]! <= b + OPEN_TURNING_MARGIN_S && !excluded[f]) {
+        // the analyser being turned to or from parallel: neither open nor crossed
+        excluded[f] = 'open-turning';
       }
     }
     if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frames (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
@@ -502,6 +514,10 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       vals.push(openPass.regions[0]!.luma[f]! - bg);
     }
     openLevel = median(vals);
+  }
+
+  if (openLevel !== undefined) {
+    checkOpenLevel(openLevel, intensity, excluded.map((e) => !e), o.openWindowS ? '--open-window' : o.openVideoPath ? '--open-video' : '--open-level');
   }
 
   // ---- sync ----

@@ -96,6 +96,12 @@ describe('issue 12: honest numbers on simulated runs', () => {
     expect(out.result.warnings.some((w) => /after the reference correction/.test(w.message))).toBe(false);
   }, 60_000);
 
+  it('refuses an open level below the brightest measured signal, and the run\'s own clip as --open-video', async () => {
+    const { dir, truth } = await render('openlevel', scenario(37, triangle, { sampleRateHz: 10, clockOffsetS: 0 }));
+    await expect(analyzeRun({ ...options(dir, truth.roi), openLevel: 0.01 }, hooks)).rejects.toThrow(/below the brightest measured signal/);
+    expect(() => checkAnalyzeOptions({ ...options(dir, truth.roi), openVideoPath: join(dir, 'clip.mp4') })).toThrow(/run's own clip/);
+  }, 60_000);
+
   it('refuses a length or gap in the wrong unit (--length-mm 1e9, --gap-mm 1e-9)', () => {
     const o = { videoPath: __filename, voltsPath: __filename, lengthMm: 40, gapMm: 4 };
     expect(() => checkAnalyzeOptions({ ...o, lengthMm: 1e9 })).toThrow(/--length-mm/);
