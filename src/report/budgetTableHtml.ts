@@ -23,7 +23,7 @@ export function budgetTableHtml(r: RunResult): SafeHtml | null {
   });
   return html`${failures}<h3>Uncertainty budget</h3>
 <p>GUM (JCGM 100:2008): relative standard uncertainties, combined in quadrature; the expanded uncertainty uses k = ${String(u.kerrConstant.coverageFactor)} (about 95 %). "Cancels" marks terms shared by every run of one cell with one logger, which drop out of a before/after comparison of that cell.</p>
-<table class="kv"><tr><th>term</th><th>input</th><th>exponent in B</th><th>on B</th><th>on Vπ</th><th>cancels</th><th>source</th></tr>
+<table class="budget"><tr><th>term</th><th>input</th><th>exponent in B</th><th>on B</th><th>on Vπ</th><th>cancels</th><th>source</th></tr>
 ${rows}
 <tr><th>combined standard</th><td></td><td></td><td class="num">${pct(u.kerrConstant.relativeCombined)}</td><td class="num">${pct(u.halfWaveVoltage.relativeCombined)}</td><td></td><td>statistical alone on B: ${pct(u.kerrConstant.statisticalStdErr / Math.abs(u.kerrConstant.value))}</td></tr>
 <tr><th>expanded (k = ${String(u.kerrConstant.coverageFactor)})</th><td></td><td></td><td class="num">${pct(u.kerrConstant.coverageFactor * u.kerrConstant.relativeCombined)}</td><td class="num">${pct(u.halfWaveVoltage.coverageFactor * u.halfWaveVoltage.relativeCombined)}</td><td></td><td></td></tr></table>`;

@@ -55,7 +55,7 @@ export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: 
     fail('figures-finite', 'the fit gave no finite Kerr constant or uncertainty');
   }
   if (!g.converged) fail('fit-not-converged', `the fit stopped without converging (${g.fitReason})`);
-  if (!g.identifiable) fail('not-identifiable', `the sweep reaches about ${(100 * g.maxVoltageOverHalfWave).toFixed(0)} % of the half-wave voltage, too little to separate brightness from V_π without an open level`);
+  if (!g.identifiable) fail('not-identifiable', 'the sweep does not reach far enough to separate brightness from the half-wave voltage (which is therefore unknown); record an open level or sweep higher if the cell allows it');
   if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
   }
