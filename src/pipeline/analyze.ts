@@ -24,6 +24,7 @@ import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
 import { checkOpenLevel } from '../core/gates/checkOpenLevel.js';
+import { checkRegionsApart } from '../core/gates/checkRegionsApart.js';
 import { checkLogUnits } from '../core/signal/checkLogUnits.js';
 import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
@@ -405,6 +406,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       }
     }
   }
+
+  checkRegionsApart({ beam: beamRect, beamOption: o.roi ? '--roi' : 'found automatically', ...(o.darkRoi ? { dark: o.darkRoi } : {}), ...(o.referenceRoi ? { reference: o.referenceRoi } : {}) });
 
   // ---- flashes again, now on the light outside the beam and its rings ----
   {
