@@ -27,6 +27,11 @@ export function summaryText(r: RunResult, dir: string): string {
   } else {
     row('Kerr constant B', 'not identifiable from this sweep (see warnings)');
   }
+  if (r.uncertainty && r.identifiable) {
+    const b = r.uncertainty.kerrConstant;
+    const big = [...b.terms].filter((t) => t.relative > 0).sort((x, y) => y.relative - x.relative).map((t) => `${t.name} ${(100 * t.relative).toPrecision(2)}%`);
+    row('uncertainty of B', `${(100 * b.relativeCombined).toPrecision(2)}% standard, ±${(100 * b.coverageFactor * b.relativeCombined).toPrecision(2)}% expanded (k = ${b.coverageFactor}): ${big.join(', ')}`);
+  }
   row('floor fraction', formatQuantity(r.floorFraction));
   row('contrast ratio', formatQuantity(r.contrastRatio));
   if (stills) {
@@ -42,6 +47,7 @@ export function summaryText(r: RunResult, dir: string): string {
     row('', `(${r.channels.note})`);
   }
   for (const w of r.warnings) lines.push(`  warning: ${w.message}`);
+  if (r.validity && !r.validity.valid) for (const f of r.validity.failures) lines.push(`  NOT VALID (${f.gate}): ${f.message}`);
   lines.push(`  files: ${dir}`);
   return `${lines.join('\n')}\n`;
 }

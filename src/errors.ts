@@ -16,6 +16,7 @@ export type KerrErrorCode =
   | 'BAD_SCENARIO'
   | 'NO_OVERLAP'
   | 'NOT_IDENTIFIABLE'
+  | 'NOT_VALID' // the run was written but failed a gate (docs/analyze.md, "Gates")
   | 'FIT_FAILED'
   | 'BAD_RESULT'
   | 'UNSAFE'

@@ -24,6 +24,20 @@ export function parseTransfer(text: string): TransferName {
   return parseCoreTransfer(text, '--transfer');
 }
 
+/**
+ * A length with an optional tolerance: "40", "40±0.1" or "40+-0.1" (mm). The tolerance is a ±
+ * limit; the budget takes it as rectangular (docs/uncertainty.md).
+ */
+export function parseWithTolerance(text: string, option: string, what: string): { value: number; tolerance?: number } {
+  const m = /^\s*([^±+]+?)\s*(?:(?:±|\+-|\+\/-)\s*(.+))?\s*$/.exec(text);
+  if (!m) throw invalid(`${what}, optionally with a tolerance (e.g. 4±0.05)`, option, text);
+  const value = parseNumber(m[1]!, option, `${what}, optionally with a tolerance (e.g. 4±0.05)`);
+  if (m[2] === undefined) return { value };
+  const tolerance = parseNumber(m[2], option, `a tolerance in mm after ± (e.g. 4±0.05)`);
+  if (!(tolerance >= 0)) throw invalid('a tolerance of 0 or more after ±', option, text);
+  return { value, tolerance };
+}
+
 function parseWindow(text: string): [number, number] {
   const m = /^\s*(-?[\d.]+)\s*:\s*(-?[\d.]+)\s*$/.exec(text);
   if (!m) throw invalid('START:END in seconds of the video, e.g. 1.5:4', '--open-window', text);
@@ -34,19 +48,24 @@ export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
   offsetS?: string; openWindow?: string; openVideo?: string; openLevel?: string; effectiveLengthMm?: string;
   polariserAngleDeg?: string; staticRetardanceRad?: string; transfer?: string; electrodeHeightMm?: string; label?: string;
-  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string; wavelengthNm?: string; cameraProfile?: string;
+  json?: boolean; force?: boolean; quiet?: boolean; robust?: boolean; report?: boolean; maps?: boolean; baseline?: string; channels?: string; wavelengthNm?: string; cameraProfile?: string; voltsAccuracy?: string;
 }
 
 export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOptions {
   if (!c.volts) throw new KerrError('BAD_ARGUMENT', 'the voltage log is missing', { path: '--volts', hint: 'Give it with --volts FILE.csv' });
   if (c.lengthMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode length is missing', { path: '--length-mm', hint: 'Give it with --length-mm L (mm)' });
   if (c.gapMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode gap is missing', { path: '--gap-mm', hint: 'Give it with --gap-mm D (mm)' });
+  const length = parseWithTolerance(c.lengthMm, '--length-mm', 'a positive electrode length in mm');
+  const gap = parseWithTolerance(c.gapMm, '--gap-mm', 'a positive electrode gap in mm');
   const o: AnalyzeOptions = {
     videoPath: video,
     voltsPath: c.volts,
-    lengthMm: parseNumber(c.lengthMm, '--length-mm', 'a positive electrode length in mm'),
-    gapMm: parseNumber(c.gapMm, '--gap-mm', 'a positive electrode gap in mm'),
+    lengthMm: length.value,
+    gapMm: gap.value,
   };
+  if (length.tolerance !== undefined) o.lengthToleranceMm = length.tolerance;
+  if (gap.tolerance !== undefined) o.gapToleranceMm = gap.tolerance;
+  if (c.voltsAccuracy !== undefined) o.voltsAccuracyPercent = parseNumber(c.voltsAccuracy.replace(/%$/, ''), '--volts-accuracy', 'a logger accuracy in percent of reading (e.g. 1)');
   if (c.effectiveLengthMm !== undefined) o.effectiveLengthMm = parseNumber(c.effectiveLengthMm, '--effective-length-mm', 'an effective length in mm');
   if (c.polariserAngleDeg !== undefined) o.polariserAngleDeg = parseNumber(c.polariserAngleDeg, '--polariser-angle-deg', 'an angle in degrees');
   if (c.staticRetardanceRad !== undefined) o.staticRetardanceRad = parseNumber(c.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
@@ -76,8 +95,9 @@ export function register(program: Command): void {
     .description('measure the Kerr constant, half-wave voltage, floor and contrast from a video and its voltage log')
     .argument('<video>', 'the recording (any format ffmpeg reads)')
     .option('--volts <csv>', 'voltage log CSV (see docs/voltage-log.md)')
-    .option('--length-mm <L>', 'electrode length along the beam, mm')
-    .option('--gap-mm <D>', 'electrode gap, mm')
+    .option('--length-mm <L>', 'electrode length along the beam, mm, optionally with its tolerance: 40±0.1')
+    .option('--gap-mm <D>', 'electrode gap, mm, optionally with its tolerance: 4±0.05')
+    .option('--volts-accuracy <P>', 'voltage logger accuracy, ± percent of reading (default 1)')
     .option('--out <dir>', 'output folder (default: <video name>.kerrtrace beside the video)')
     .option('--force', 'replace an existing output folder')
     .option('--roi <x,y,w,h>', 'beam region in pixels of the displayed frame (default: found automatically)')
@@ -128,6 +148,7 @@ export function register(program: Command): void {
         progress.stop();
       }
       const { out, products } = run;
+      const validity = out.result.validity;
       if (baseline) out.result.inputs.baseline = baseline.source;
       const written = await finishRun(out, {
         outDir, force: c.force === true, report: c.report !== false,
@@ -137,6 +158,10 @@ export function register(program: Command): void {
         process.stdout.write(`${JSON.stringify(out.result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
       } else {
         process.stdout.write(summaryText(out.result, written));
+      }
+      if (validity && !validity.valid) {
+        // The run is written (marked not valid) so it can be inspected; its figures are not to be used.
+        throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => f.message).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/analyze.md, "Gates"` });
       }
     }));
 }

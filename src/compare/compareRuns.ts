@@ -18,6 +18,7 @@
  * @example compareRuns([before, after], ['before', 'after']).verdicts[0]
  *   → "From before to after: the floor fraction fell by 62% ± 3%; the Kerr constant did not change within its uncertainty (z = 0.3)."
  */
+import { cancellingTerms, runToRunQuantity } from './runToRunQuantity.js';
 import { KerrError } from '../errors.js';
 import type { Quantity } from '../quantity.js';
 import { FIGURES, formatFigure, type FigureDefinition } from '../report/figureCatalogue.js';
@@ -49,7 +50,11 @@ export function compareRuns(results: readonly RunResult[], labels: readonly stri
   });
   const allowDifferentCells = options.allowDifferentCells ?? false;
   const warnings: RunWarning[] = [];
-  checkGeometry(results, labels, allowDifferentCells, warnings);
+  const sameCell = checkGeometry(results, labels, allowDifferentCells, warnings);
+  const cancelling = sameCell ? cancellingTerms(results) : [];
+  if (cancelling.length > 0) {
+    warnings.push({ code: 'terms-cancel', message: `The runs share one cell, so the ${cancelling.join(', ')} terms of the uncertainty budget are the same in each and cancel in the changes below; each run's figure keeps its full uncertainty.` });
+  }
   checkConditions(results, labels, warnings);
 
   const runs: ComparedRun[] = results.map((r, i) => ({
@@ -80,7 +85,8 @@ export function compareRuns(results: readonly RunResult[], labels: readonly stri
     const pairTexts: string[] = [];
     for (const series of figures) {
       const def = FIGURES.find((f) => f.key === series.key)!;
-      const change = figureChange(def, series, i - 1, i, labels);
+      const forChange = { ...series, values: series.values.map((q, k) => runToRunQuantity(results[k]!, series.key, sameCell, q)) };
+      const change = figureChange(def, forChange, i - 1, i, labels);
       if (change === null) continue;
       changes.push(change);
       pairTexts.push(change.text);
@@ -128,7 +134,9 @@ function differs(a: number, b: number): boolean {
   return Math.abs(a - b) > GEOMETRY_TOLERANCE * Math.max(Math.abs(a), Math.abs(b));
 }
 
-function checkGeometry(results: readonly RunResult[], labels: readonly string[], allow: boolean, warnings: RunWarning[]): void {
+/** Throws for different cells unless allowed; returns whether every run used the same cell. */
+function checkGeometry(results: readonly RunResult[], labels: readonly string[], allow: boolean, warnings: RunWarning[]): boolean {
+  let same = true;
   const first = results[0]!.cell;
   const fields: [keyof RunResult['cell'] & ('lengthM' | 'effectiveLengthM' | 'gapM'), string][] = [
     ['lengthM', 'length'], ['effectiveLengthM', 'effective length'], ['gapM', 'gap'],
@@ -137,6 +145,7 @@ function checkGeometry(results: readonly RunResult[], labels: readonly string[],
     const cell = results[i]!.cell;
     for (const [field, words] of fields) {
       if (!differs(first[field], cell[field])) continue;
+      same = false;
       const text = `the runs were made with different cells: ${words} ${formatMeasured(first[field] * 1000)} mm in ${labels[0]} but ${formatMeasured(cell[field] * 1000)} mm in ${labels[i]}`;
       if (!allow) {
         throw new KerrError('BAD_ARGUMENT', text, { path: '--allow-different-cells', hint: 'Compare runs of the same cell, or add --allow-different-cells to compare them anyway (the Kerr constant stays comparable; the half-wave voltage and floor do not)' });
@@ -144,6 +153,7 @@ function checkGeometry(results: readonly RunResult[], labels: readonly string[],
       warnings.push({ code: 'different-cells', message: `${text[0]!.toUpperCase()}${text.slice(1)}; compared anyway because --allow-different-cells was given. The Kerr constant stays comparable; the half-wave voltage, floor and contrast depend on the cell.` });
     }
   }
+  return same;
 }
 
 function checkConditions(results: readonly RunResult[], labels: readonly string[], warnings: RunWarning[]): void {

@@ -11,7 +11,7 @@ import { createHash } from 'node:crypto';
 import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import { KerrError } from '../errors.js';
-import { RESULT_SCHEMA_VERSION, type InputFile, type RunResult } from '../result/schema.js';
+import { READABLE_RESULT_SCHEMA_VERSIONS, type InputFile, type RunResult } from '../result/schema.js';
 
 /** Every top-level key of RunResult; the Record type makes the compiler flag a key added to the schema but not here. */
 const KNOWN_KEYS: Record<keyof RunResult, true> = {
@@ -19,7 +19,7 @@ const KNOWN_KEYS: Record<keyof RunResult, true> = {
   cell: true, camera: true, regions: true, kerrConstant: true, halfWaveVoltage: true, syncOffset: true, floorFraction: true,
   contrastRatio: true, quarterWaveVoltage: true, identifiable: true, identifiability: true, model: true, fit: true,
   linearised: true, sync: true, frames: true, events: true, log: true, scatter: true, hysteresis: true, conductivity: true,
-  channels: true, cameraResponse: true, warnings: true, files: true,
+  channels: true, cameraResponse: true, warnings: true, files: true, uncertainty: true, validity: true,
 };
 
 const HEADLINE = ['kerrConstant', 'halfWaveVoltage', 'syncOffset', 'floorFraction', 'contrastRatio', 'quarterWaveVoltage'] as const;
@@ -66,8 +66,8 @@ function validate(data: unknown, file: string): RunResult {
   if (data.kind !== 'kerrtrace-run') {
     throw bad(file, `expected a kerrtrace run result (kind "kerrtrace-run") in ${file} but received kind ${JSON.stringify(data.kind ?? null)}`, hint);
   }
-  if (data.schemaVersion !== RESULT_SCHEMA_VERSION) {
-    throw bad(file, `expected result schema version ${RESULT_SCHEMA_VERSION} in ${file} but received ${JSON.stringify(data.schemaVersion ?? null)}`, 'Re-run `kerrtrace analyze` with this version of kerrtrace, or compare with the version that wrote it');
+  if (typeof data.schemaVersion !== 'number' || !READABLE_RESULT_SCHEMA_VERSIONS.includes(data.schemaVersion)) {
+    throw bad(file, `expected result schema version ${READABLE_RESULT_SCHEMA_VERSIONS.join(' or ')} in ${file} but received ${JSON.stringify(data.schemaVersion ?? null)}`, 'Re-run `kerrtrace analyze` with this version of kerrtrace, or compare with the version that wrote it');
   }
   const unknown = Object.keys(data).filter((k) => !(k in KNOWN_KEYS));
   if (unknown.length > 0) throw bad(file, `${file} has unknown field${unknown.length > 1 ? 's' : ''} ${unknown.map((k) => JSON.stringify(k)).join(', ')}`, 'Give an unedited result.json written by `kerrtrace analyze`');
@@ -87,6 +87,16 @@ function validate(data: unknown, file: string): RunResult {
   need(camera.fps === null || typeof camera.fps === 'number', 'a number or null "camera.fps"');
   need(typeof camera.transfer === 'string' && typeof camera.range === 'string', 'strings "camera.transfer" and "camera.range"');
   for (const k of HEADLINE) need(isQuantity(data[k]), `a figure {value, stdErr} "${k}"`);
+  // Damaged figures: a negative or non-finite uncertainty, a non-positive B or V_π.
+  for (const k of HEADLINE) {
+    const q = data[k] as { value: number | null; stdErr?: number | null };
+    need(q.stdErr === undefined || q.stdErr === null || q.stdErr >= 0, `a non-negative uncertainty "${k}.stdErr" (received ${String(q.stdErr)})`);
+  }
+  for (const k of ['kerrConstant', 'halfWaveVoltage'] as const) {
+    const q = data[k] as { value: number | null };
+    need(q.value === null || q.value > 0, `a positive "${k}.value" (received ${String(q.value)})`);
+  }
+  if (data.uncertainty !== undefined) need(isObject(data.uncertainty) && isObject((data.uncertainty as Record<string, unknown>).kerrConstant), 'an "uncertainty" object with a "kerrConstant" budget');
   need(isObject(data.log), 'a "log" object');
   const log = data.log as Record<string, unknown>;
   need(log.temperatureC === null || isQuantity(log.temperatureC), 'a figure or null "log.temperatureC"');

@@ -27,6 +27,10 @@ import { exposureGains } from '../measure/exposure.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
+import { checkOpenLevel } from '../core/gates/checkOpenLevel.js';
+import { checkRegionsApart } from '../core/gates/checkRegionsApart.js';
+import { checkLogUnits } from '../core/signal/checkLogUnits.js';
+import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { findBeam } from '../core/regions/findBeam.js';
 import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
@@ -40,6 +44,12 @@ import { interpolationUncertaintyV } from '../core/signal/interpolationUncertain
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
 import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
+import { runUncertainty } from './runUncertainty.js';
+import { syncOffsetUncertaintyS } from '../core/uncertainty/syncOffsetUncertainty.js';
+import { checkPlausibleGeometry } from './checkPlausibleGeometry.js';
+import { runGates } from '../core/gates/runGates.js';
+import { frameNoise } from '../core/gates/frameNoise.js';
+import { LIQUIDS } from '../data/liquids.js';
 import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
 
 export interface AnalyzeOptions {
@@ -67,7 +77,24 @@ export interface AnalyzeOptions {
   channels?: 'rgb';
   /** A camera response profile (kerrtrace calibrate-camera) to use instead of the transfer curve. */
   cameraProfilePath?: string;
+  /** Logger accuracy, ± percent of reading (default 1, common practice; docs/uncertainty.md). */
+  voltsAccuracyPercent?: number;
+  /** Tolerances (± limits) of the electrode length and gap, mm (default 0: not given). */
+  lengthToleranceMm?: number;
+  gapToleranceMm?: number;
+  /** Relative standard uncertainty the camera response puts on B, when a response check gave one. */
+  cameraResponseRel?: number;
 }
+
+/**
+ * Frames within this many seconds either side of --open-window are left out of the sync and the fit
+ * (reason "open-turning"): turning an analyser by hand between parallel and crossed takes about a
+ * second, and those frames are neither (this tool's documented margin).
+ */
+export const OPEN_TURNING_MARGIN_S = 1.5;
+
+/** Default logger accuracy, ± percent of reading: a typical high-voltage divider and meter (common practice). */
+export const DEFAULT_VOLTS_ACCURACY_PERCENT = 1;
 
 export interface AnalyzeHooks {
   onProgress?: (stage: string, done: number, total: number) => void;
@@ -118,6 +145,10 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   }
   positive(o.lengthMm, 'electrode length in mm', '--length-mm');
   positive(o.gapMm, 'electrode gap in mm', '--gap-mm');
+  checkPlausibleGeometry(o.lengthMm, o.gapMm);
+  if (o.voltsAccuracyPercent !== undefined && !(o.voltsAccuracyPercent >= 0 && o.voltsAccuracyPercent < 50)) throw invalid('a logger accuracy from 0 to 50 percent of reading', '--volts-accuracy', o.voltsAccuracyPercent);
+  if (o.lengthToleranceMm !== undefined && !(o.lengthToleranceMm >= 0 && o.lengthToleranceMm < o.lengthMm)) throw invalid(`a length tolerance from 0 to below the length (${o.lengthMm} mm)`, '--length-mm', o.lengthToleranceMm);
+  if (o.gapToleranceMm !== undefined && !(o.gapToleranceMm >= 0 && o.gapToleranceMm < o.gapMm)) throw invalid(`a gap tolerance from 0 to below the gap (${o.gapMm} mm)`, '--gap-mm', o.gapToleranceMm);
   if (o.effectiveLengthMm !== undefined) {
     positive(o.effectiveLengthMm, 'effective length in mm', '--effective-length-mm');
     if (o.effectiveLengthMm < o.lengthMm) {
@@ -129,6 +160,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   const opens = [o.openWindowS, o.openVideoPath, o.openLevel].filter((x) => x !== undefined).length;
   if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
+  if (o.openVideoPath !== undefined && resolve(o.openVideoPath) === resolve(o.videoPath)) throw new KerrError('BAD_ARGUMENT', `the open video ${o.openVideoPath} is the run's own clip`, { path: '--open-video', hint: 'Give a separate clip recorded with the analyser parallel and no field, or --open-window START:END for a part of this clip' });
   if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
   if (o.cameraProfilePath !== undefined) {
@@ -284,6 +316,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const log: VoltageLog = await readVoltageLog(o.voltsPath);
   let vAbsMax = 0;
   for (const v of log.voltageV) vAbsMax = Math.max(vAbsMax, Math.abs(v));
+  checkLogUnits({ timeS: log.timeS, voltageV: log.voltageV, timeColumn: log.columns.time, videoDurationS: info.durationS, gapM: o.gapMm * MM, file: o.voltsPath });
   if (!(vAbsMax > 0)) {
     throw new KerrError('NOT_IDENTIFIABLE', `the voltage log ${o.voltsPath} never leaves zero`, { path: '--volts', hint: 'Check the voltage column and its unit, or record a sweep' });
   }
@@ -387,6 +420,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     }
   }
 
+  checkRegionsApart({ beam: beamRect, beamOption: o.roi ? '--roi' : 'found automatically', ...(o.darkRoi ? { dark: o.darkRoi } : {}), ...(o.referenceRoi ? { reference: o.referenceRoi } : {}) });
+
   // ---- flashes again, now on the light outside the beam and its rings ----
   {
     const outer = geom ? geom.b1 : beamRect;
@@ -466,6 +501,9 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       if (times[f]! >= a && times[f]! <= b) {
         if (!excluded[f]) vals.push(intensity[f]!);
         excluded[f] = 'open-window';
+      } else if (times[f]! >= a - OPEN_TURNING_MARGIN_S && times[f]! <= b + OPEN_TURNING_MARGIN_S && !excluded[f]) {
+        // the analyser being turned to or from parallel: neither open nor crossed
+        excluded[f] = 'open-turning';
       }
     }
     if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frames (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
@@ -494,6 +532,10 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     openLevel = median(vals);
   }
 
+  if (openLevel !== undefined) {
+    checkOpenLevel(openLevel, intensity, excluded.map((e) => !e), o.openWindowS ? '--open-window' : o.openVideoPath ? '--open-video' : '--open-level');
+  }
+
   // ---- sync ----
   const usableForSync = new Uint8Array(nFrames);
   for (let f = 0; f < nFrames; f++) usableForSync[f] = excluded[f] ? 0 : 1;
@@ -516,18 +558,24 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   // ---- voltage at each frame ----
   const query = new Float64Array(nFrames);
   for (let f = 0; f < nFrames; f++) query[f] = times[f]! - offsetS;
-  const voltage = interpolateAt(log.timeS, log.voltageV, query);
+  // Monotone cubic where the log is smooth, straight lines at steps, nothing across dropouts.
+  const logNoiseV = voltageNoiseV(log.voltageV);
+  const voltageAt = (q: Float64Array): Float64Array => (log.rows >= 2 ? interpolateLog(log.timeS, log.voltageV, q, logNoiseV).valueV : interpolateAt(log.timeS, log.voltageV, q));
+  const reading = log.rows >= 2 ? interpolateLog(log.timeS, log.voltageV, query, logNoiseV) : { valueV: interpolateAt(log.timeS, log.voltageV, query), gap: new Uint8Array(nFrames) };
+  const voltage = reading.valueV;
   let inLog = 0;
+  let inGaps = 0;
   for (let f = 0; f < nFrames; f++) {
-    if (!Number.isFinite(voltage[f]!)) { if (!excluded[f]) excluded[f] = 'outside-log'; } else inLog++;
+    if (reading.gap[f]) { if (!excluded[f]) { excluded[f] = 'log-gap'; inGaps++; } } else if (!Number.isFinite(voltage[f]!)) { if (!excluded[f]) excluded[f] = 'outside-log'; } else inLog++;
   }
+  if (inGaps > 0) warn('log-gap', `${inGaps} frames fall in gaps of the voltage log (intervals longer than ${GAP_FACTOR}× the median sample interval) and were left out rather than bridged`, 'voltage-log');
   if (inLog < 10) {
     throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frames with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
   }
 
   return {
     o, hooks, info, decoding, log, grid, times, nFrames, intensity, gain, voltage, query, vAbsMax, openLevel,
-    offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround,
+    offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround, voltageAt,
     excluded: excluded.slice(), events: events.slice(), warnings: warnings.slice(),
     ...(channelIntensity ? { channelIntensity } : {}),
     ...(cameraProfile ? { cameraProfile } : {}),
@@ -549,6 +597,8 @@ export interface MeasuredRun {
   /** Exposure gain per frame (1 without a reference region). */
   gain: Float64Array;
   voltage: Float64Array;
+  /** The log's voltage at log times (NaN where the log cannot tell), the same rule as `voltage`. */
+  voltageAt: (logTimesS: Float64Array) => Float64Array;
   query: Float64Array;
   vAbsMax: number;
   openLevel: number | undefined;
@@ -740,7 +790,31 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   const usedCount = nFrames - Object.values(excludedCounts).reduce((a, b) => a + b, 0);
 
   const temperature = log.temperatureC ? meanSd(log.temperatureC) : null;
-  const vpiQ: Quantity = fit.halfWaveVoltage;
+  // ---- uncertainty budget and gates ----
+  const bitsPerPixel = (statSync(o.videoPath).size * 8) / (nFrames * info.width * info.height);
+  const offsetU = syncOffsetUncertaintyS(offsetStdErrS, fit.errorInflation, times);
+  const uncertainty = runUncertainty({
+    fit,
+    fitInput: { ...fitInput, intensity: iUsed, voltageSigmaV: Float64Array.from(useIdx, (f) => sigmaAll[f]!), onlyGivenStarts: true },
+    voltageAtOffset: (off) => m.voltageAt(Float64Array.from(useIdx, (f) => times[f]! - off)),
+    offsetS, offsetStdErrS: offsetU,
+    voltsAccuracyPercent: o.voltsAccuracyPercent ?? DEFAULT_VOLTS_ACCURACY_PERCENT,
+    gapM, gapToleranceM: (o.gapToleranceMm ?? 0) * MM,
+    lengthM: effectiveLengthM, lengthToleranceM: (o.lengthToleranceMm ?? 0) * MM,
+    ...(o.cameraResponseRel !== undefined ? { cameraResponseRel: o.cameraResponseRel } : {}),
+    frames: { voltageV: voltage, intensity, include: Uint8Array.from(excluded, (e) => (e ? 0 : 1)), timesS: times },
+  });
+  const noiseOfFrames = frameNoise(Float64Array.from(useIdx, (f) => intensity[f]!));
+  const liquidRange = liquidKerrRange();
+  const gates = runGates({
+    kerrConstant: fit.kerrConstant.value, kerrConstantStdErr: uncertainty.kerrConstant.combinedStdErr,
+    halfWaveVoltageV: fit.halfWaveVoltage.value, halfWaveStdErrV: uncertainty.halfWaveVoltage.combinedStdErr,
+    converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
+    residualRms: fit.intensityNoise, signalAmplitude: fit.amplitude.value, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
+  });
+  warnings.push(...gates.warnings);
+  const kerrQ: Quantity = quantity(fit.kerrConstant.value, uncertainty.kerrConstant.combinedStdErr, 'm/V^2');
+  const vpiQ: Quantity = quantity(fit.halfWaveVoltage.value, uncertainty.halfWaveVoltage.combinedStdErr, 'V');
   const result: RunResult = {
     schemaVersion: RESULT_SCHEMA_VERSION,
     kind: 'kerrtrace-run',
@@ -751,17 +825,19 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     inputs: {},
     options: { ...o },
     cell: { lengthM, effectiveLengthM, gapM, polariserAngleDeg, electrodeHeightM: o.electrodeHeightMm !== undefined ? o.electrodeHeightMm * MM : null, wavelengthNm: o.wavelengthNm ?? null },
-    camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range },
+    camera: { width: info.width, height: info.height, fps: info.meanFps, variableFrameRate: info.variableFrameRate, transfer: decoding.transfer, range: decoding.range, bitsPerPixel },
     regions: {
       beam: beamRect, beamAuto,
       ...(o.darkRoi ? { dark: o.darkRoi } : {}),
       ...(!o.darkRoi && haveSurround && geom ? { surround: geom.b1 } : {}),
       ...(o.referenceRoi ? { reference: o.referenceRoi } : {}),
     },
-    kerrConstant: fit.kerrConstant,
+    kerrConstant: kerrQ,
     halfWaveVoltage: vpiQ,
+    uncertainty,
+    validity: { valid: gates.failures.length === 0, failures: gates.failures },
     quarterWaveVoltage: quantity(vpiQ.value / Math.SQRT2, (vpiQ.stdErr ?? NaN) / Math.SQRT2, 'V'),
-    syncOffset: quantity(offsetS, offsetStdErrS, 's'),
+    syncOffset: quantity(offsetS, offsetU, 's'),
     floorFraction,
     contrastRatio,
     identifiable: fit.identifiable,
@@ -770,7 +846,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
       darkLevel: 0, floorLevel: floor, amplitude: amp, kerrConstant: fit.kerrConstant, effectiveLengthM, gapM, polariserAngleDeg,
       staticRetardanceRad: o.staticRetardanceRad ?? 0,
     },
-    fit: { converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom, starts: fit.starts, robust: o.robust === false ? 'none' : 'huber', residualAutocorrelation: fit.residualAutocorrelation, errorInflation: fit.errorInflation },
+    fit: { converged: fit.converged, iterations: fit.iterations, reason: fit.reason, residualRms: fit.residualRms, degreesOfFreedom: fit.degreesOfFreedom, starts: fit.starts, robust: o.robust === false ? 'none' : 'huber', residualAutocorrelation: fit.residualAutocorrelation, errorInflation: fit.errorInflation, effectiveFrames: fit.effectiveFrames, startResults: fit.startResults, residualOverFrameNoise: fit.residualRms / noiseOfFrames },
     linearised,
     sync,
     frames: { total: nFrames, used: usedCount, excluded: excludedCounts },
@@ -782,6 +858,13 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     files: {},
   };
   return { result, trace, grid, frameTimesS: times, intensity, modulation, usable: used, fit, info, decoding, gain: m.gain, log, measured: m };
+}
+
+/** [lowest, highest] Kerr constant in the built-in liquid table, m/V². */
+function liquidKerrRange(): [number, number] {
+  let lo = Infinity, hi = 0;
+  for (const l of LIQUIDS) for (const k of l.kerrConstants) { lo = Math.min(lo, k.valueMPerV2); hi = Math.max(hi, k.valueMPerV2); }
+  return [lo, hi];
 }
 
 function meanSd(a: Float64Array): Quantity {

@@ -29,9 +29,16 @@ export async function analyzeWithProducts(o: AnalyzeOptions, hooks: AnalyzeHooks
   const measured = await measureRun(o, hooks);
   let out = fitMeasuredRun(measured);
   if (p.products === false) return { out, products: null };
+  // Maps need a modulation term that varies; a run whose V_π is not identifiable has none. Its
+  // figures are already withheld and the run marked not valid, so it is written without maps.
+  if (!out.result.identifiable) {
+    out.result.warnings.push({ code: 'no-maps', message: 'no maps or scatter figures: the half-wave voltage is not identifiable from this sweep, so the modulation term is unknown' });
+    return { out, products: null };
+  }
   const products = await computeScatterProducts(out, {
     videoPath: o.videoPath,
-    gain: out.gain,
+    // gains exist only with a reference region (without one they are all 1 and correct nothing)
+    ...(o.referenceRoi ? { gain: out.gain } : {}),
     log: out.log,
     ...(p.baseline ? { baseline: p.baseline } : {}),
   });

@@ -42,7 +42,9 @@ import { exposureDrift } from '../core/scatter/exposureDrift.js';
 import { detectExposureJumps } from '../core/scatter/detectExposureJumps.js';
 import { outsideBoxSeries } from '../core/scatter/boxSeries.js';
 import { referenceGain } from '../core/scatter/referenceGain.js';
-import { hysteresis as fitHysteresis } from '../core/scatter/hysteresis.js';
+import { hysteresis as fitHysteresis, type BranchFitter } from '../core/scatter/hysteresis.js';
+import { hysteresisVerdict } from '../core/scatter/hysteresisVerdict.js';
+import { interpolateLog } from '../core/signal/interpolateLog.js';
 import { liquidResistivity } from '../core/scatter/resistivity.js';
 import { growCellBox, rectToCellBox, cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
 import { renderMapPng } from '../maps/renderMapPng.js';
@@ -159,7 +161,9 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
   const jumps = detectExposureJumps({ level: drift.driveFreeLevel, skip: Uint8Array.from(notSpark, (k) => 1 - k) });
   const jumpFrame = new Uint8Array(frames);
   for (const j of jumps) jumpFrame[j.frameIndex] = 1;
-  const haveReference = givenReference !== undefined || opts.gain !== undefined;
+  // Only a reference region corrects exposure: without one, say so (exposure-drift), never that
+  // jumps "remain after the reference correction".
+  const haveReference = givenReference !== undefined;
   if (!haveReference && (drift.drifting || jumps.length > 0)) {
     const parts: string[] = [];
     if (drift.drifting) parts.push(`the background outside the beam varies by ${((drift.ratio - 1) * 100).toFixed(0)}% (95th/5th percentile) without following the drive`);
@@ -225,9 +229,7 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
 
   // ---- up/down comparison ----
   const voltage = Float64Array.from(trace, (row) => (row.voltageV === null ? NaN : row.voltageV));
-  const hyst = fitHysteresis({
-    voltageV: voltage, intensity, include: clean, timesS: times,
-    fitBranch: (v, i) => fitKerrCurve({
+  const branchFitter: BranchFitter = (v, i) => fitKerrCurve({
       voltageV: v, intensity: i,
       effectiveLengthM: result.model.effectiveLengthM, gapM: result.model.gapM, polariserAngleDeg: result.model.polariserAngleDeg,
       staticRetardanceRad: result.model.staticRetardanceRad,
@@ -236,8 +238,24 @@ export async function computeScatterProducts(out: AnalyzeOutput, opts: ScatterPr
       onlyGivenStarts: true, // each branch lies near the full fit
       // outliers and events are already left out (`clean`); plain least squares keeps this quick
       robust: false,
-    }),
+    });
+  const hyst = fitHysteresis({
+    voltageV: voltage, intensity, include: clean, timesS: times,
+    fitBranch: branchFitter,
   });
+
+  // A difference the sync offset's uncertainty alone could open is not hysteresis.
+  if (hyst.result && result.syncOffset.stdErr !== undefined && result.syncOffset.stdErr > 0 && opts.log && opts.log.rows >= 2) {
+    const log = opts.log;
+    const u = result.syncOffset.stdErr;
+    const diffAt = (sign: number): number => {
+      const v = interpolateLog(log.timeS, log.voltageV, Float64Array.from(times, (t) => t - (result.syncOffset.value + sign * u))).valueV;
+      const h = fitHysteresis({ voltageV: v, intensity, include: clean, timesS: times, fitBranch: branchFitter });
+      return h.result ? h.result.difference.value : NaN;
+    };
+    const verdict = hysteresisVerdict(hyst.result, diffAt(1), diffAt(-1));
+    hyst.result = { up: verdict.up, down: verdict.down, difference: verdict.difference, zScore: verdict.zScore, flagged: verdict.flagged };
+  }
   const hysteresisDetail = { framesUp: hyst.framesUp, framesDown: hyst.framesDown, framesHeld: hyst.framesHeld, ...(hyst.note ? { note: hyst.note } : {}) };
   if (hyst.result?.flagged) {
     const rel = (100 * hyst.result.difference.value) / ((hyst.result.up.value + hyst.result.down.value) / 2);

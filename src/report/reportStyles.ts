@@ -101,6 +101,8 @@ ul.verdicts { list-style: none; margin: 6px 0 0; padding: 0; }
 ul.verdicts li { margin: 0; padding: 6px 0; border-bottom: 1px solid var(--faint); display: grid; grid-template-columns: 150px 1fr; gap: 12px; align-items: baseline; }
 ul.verdicts .pill { justify-self: start; }
 table.runs { font-size: 12px; }
+table.budget th, table.budget td { text-align: left; padding-right: 10px; vertical-align: top; }
+table.budget td:last-child { width: 40%; }
 table.runs td { padding-right: 8px; }
 
 footer { margin-top: 44px; padding-top: 10px; border-top: 1px solid var(--rule); font-size: 12px; color: var(--muted); }

@@ -13,6 +13,7 @@
  * @example runReportHtml({ result, plots, images: {}, hrefFor: (a) => `guide.md#${a}` }) starts with "<!DOCTYPE html>"
  */
 import { cameraResponseText } from './cameraResponseText.js';
+import { budgetTableHtml } from './budgetTableHtml.js';
 import { formatNumber, type Quantity } from '../quantity.js';
 import type { InputFile, RunResult } from '../result/schema.js';
 import { figure, formatFigure, type FigureDefinition } from './figureCatalogue.js';
@@ -153,10 +154,11 @@ ${c.note === undefined ? null : html`<tr><th>Note</th><td>${c.note}</td></tr>`}<
 <tr><th>Note</th><td>${ch.note}</td></tr></table>`);
   }
   return html`<section id="figures" class="first"><h2><span class="no">1</span>Figures</h2>
-<p class="lead">Value ± one standard error. Kerr constant in SI units (m/V², where Δn = λ·B·E²); tables in cm/V² are 100× larger.
+<p class="lead">Value ± one standard uncertainty (combined: see the budget below when the run has one). Kerr constant in SI units (m/V², where Δn = λ·B·E²); tables in cm/V² are 100× larger.
 Cell: length ${formatNumber(r.cell.lengthM * 1000, 4)} mm, effective length ${formatNumber(r.cell.effectiveLengthM * 1000, 4)} mm, gap ${formatNumber(r.cell.gapM * 1000, 4)} mm, polariser at ${formatNumber(r.cell.polariserAngleDeg, 4)}° to the field${r.cell.wavelengthNm === null ? '' : `, light ${formatNumber(r.cell.wavelengthNm, 4)} nm`}.</p>
 ${notIdentifiable}
 <div class="cards">${cards}</div>
+${budgetTableHtml(r)}
 ${extra}
 </section>`;
 }

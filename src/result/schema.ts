@@ -5,8 +5,23 @@
  */
 import type { Quantity } from '../quantity.js';
 import type { Rect } from '../media/types.js';
+import type { UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
-export const RESULT_SCHEMA_VERSION = 1;
+/**
+ * 2: kerrConstant.stdErr and halfWaveVoltage.stdErr are the combined standard uncertainties of the
+ * budget in `uncertainty` (version 1 had the statistical error alone); `validity` added.
+ */
+export const RESULT_SCHEMA_VERSION = 2;
+
+/** Result schema versions `compare` still reads (1 lacks `uncertainty` and `validity`). */
+export const READABLE_RESULT_SCHEMA_VERSIONS: readonly number[] = [1, 2];
+
+/** A gate a run failed before its figures could be trusted (see docs/analyze.md, "Gates"). */
+export interface RunGateFailure {
+  /** Stable code, e.g. "residual-excess", "fit-not-converged", "sync-ambiguous". */
+  gate: string;
+  message: string;
+}
 
 export interface RunWarning {
   /** Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable". */
@@ -42,7 +57,7 @@ export interface FitModelParams {
 }
 
 export interface RunResult {
-  schemaVersion: typeof RESULT_SCHEMA_VERSION;
+  schemaVersion: 1 | typeof RESULT_SCHEMA_VERSION;
   kind: 'kerrtrace-run';
   label: string;
   createdAt: string; // ISO-8601
@@ -66,6 +81,8 @@ export interface RunResult {
     variableFrameRate: boolean;
     transfer: string;
     range: string;
+    /** File bits per pixel per frame (size·8/(frames·width·height)); low values mean starved compression (version 2). */
+    bitsPerPixel?: number;
   };
   regions: { beam: Rect; beamAuto: boolean; dark?: Rect; surround?: Rect; reference?: Rect };
 
@@ -76,6 +93,17 @@ export interface RunResult {
   floorFraction: Quantity; // I_floor / I_amp
   contrastRatio: Quantity; // highest / lowest fitted dark-subtracted intensity over the recorded range
   quarterWaveVoltage: Quantity; // V
+
+  /**
+   * Uncertainty budget (GUM): each term, the combined standard uncertainty (= the stdErr of
+   * kerrConstant and halfWaveVoltage) and the expanded uncertainty (k = 2). Absent in version 1.
+   */
+  uncertainty?: { kerrConstant: UncertaintyBudget; halfWaveVoltage: UncertaintyBudget };
+  /**
+   * Whether the figures passed every gate. A run that fails one is still written, marked not valid
+   * with its reasons, and `analyze` exits 3. Absent in version 1.
+   */
+  validity?: { valid: boolean; failures: RunGateFailure[] };
 
   /** False when I_amp and V_π cannot be told apart (sweep too low, no open level): B is then not reported as a number. */
   identifiable: boolean;
@@ -93,6 +121,12 @@ export interface RunResult {
     /** Lag-1 autocorrelation of the residuals and the factor by which every standard error was widened for it. */
     residualAutocorrelation: number;
     errorInflation: number;
+    /** Effective number of independent frames behind V_π (version 2). */
+    effectiveFrames?: number;
+    /** Every start's final residual and status (version 2). */
+    startResults?: { rss: number; converged: boolean; reason: string; halfWaveV: number }[];
+    /** Residual RMS over the frame-to-frame noise of the intensity (version 2; see the residual gate). */
+    residualOverFrameNoise?: number;
   };
   /** Classic reduction: V² against 2·arcsin√T on the first branch. */
   linearised: { kerrConstant: Quantity; points: number; agreesWithFit: boolean; zScore: number } | null;

@@ -58,7 +58,10 @@ describe('readRunResult', () => {
   it('refuses another kind of file, another schema version and unknown fields', async () => {
     const { result } = buildRunFixture();
     expect((await failure(write('kind.json', { ...result, kind: 'something-else' }))).message).toMatch(/expected a kerrtrace run result .* but received kind "something-else"/);
-    expect((await failure(write('version.json', { ...result, schemaVersion: 2 }))).message).toMatch(/expected result schema version 1 .* but received 2/);
+    expect((await failure(write('version.json', { ...result, schemaVersion: 3 }))).message).toMatch(/expected result schema version 1 or 2 .* but received 3/);
+    // a negative uncertainty is damage, not a figure (issue 12: compare accepted a negative σ)
+    expect((await failure(write('negative.json', { ...result, kerrConstant: { value: 2e-12, stdErr: -1e-14, unit: 'm/V^2' } }))).message).toMatch(/non-negative uncertainty "kerrConstant.stdErr"/);
+    expect((await failure(write('nonphysical.json', { ...result, halfWaveVoltage: { value: -9000, stdErr: 10, unit: 'V' } }))).message).toMatch(/positive "halfWaveVoltage.value"/);
     expect((await failure(write('extra.json', { ...result, surprise: 1 }))).message).toMatch(/unknown field "surprise"/);
     expect((await failure(write('array.json', [1, 2]))).message).toMatch(/does not hold a JSON object/);
   });

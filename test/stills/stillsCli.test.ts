@@ -103,7 +103,7 @@ describe('kerrtrace stills (real CLI)', () => {
     expect(Math.abs(result.floorFraction.value - FLOOR / AMP)).toBeLessThan(0.01);
     // every field analyze writes, with units where the quantity has one (ratios are dimensionless)
     expect(result).toMatchObject({
-      schemaVersion: 1, kind: 'kerrtrace-run', source: 'stills', label: 'photos', identifiable: true,
+      schemaVersion: 2, kind: 'kerrtrace-run', source: 'stills', label: 'photos', identifiable: true,
       kerrConstant: { unit: 'm/V^2' }, halfWaveVoltage: { unit: 'V' }, quarterWaveVoltage: { unit: 'V' },
       syncOffset: { value: 0, unit: 's' },
       sync: { manual: true, offsetS: 0, sharpnessS: null, ambiguous: false, curve: { offsetS: [], score: [] } },

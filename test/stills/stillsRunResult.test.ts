@@ -46,7 +46,7 @@ describe('stillsRunResult', () => {
     const s = series(SWEEP);
     const { result } = run(s);
     expect(result).toMatchObject({
-      schemaVersion: 1, kind: 'kerrtrace-run', source: 'stills', label: 'bench 3', createdAt: '2025-04-01T09:00:00.000Z',
+      schemaVersion: 2, kind: 'kerrtrace-run', source: 'stills', label: 'bench 3', createdAt: '2025-04-01T09:00:00.000Z',
       syncOffset: { value: 0, unit: 's' },
       sync: { manual: true, offsetS: 0, sharpnessS: null, ambiguous: false, curve: { offsetS: [], score: [] } },
       camera: { width: 160, height: 120, fps: null, variableFrameRate: false, transfer: 'srgb', range: 'full' },

@@ -9,10 +9,13 @@
  *   B = d²/(2·L_eff·V_π²),  σ_B/B = 2·σ_Vπ/V_π.
  *
  * Several V_π starts (log-spaced, plus any caller hint) keep the fit off wrong branches of sin²;
- * the best converged start is refined with Huber weights (iteratively reweighted). When the
+ * a start that hits its iteration limit is continued from where it stopped, every start is kept
+ * in `startResults`, and the best by residual (see betterStart) is refined with Huber weights
+ * (iteratively reweighted). When the
  * amplitude is known from an open measurement it is held fixed, which removes the amplitude/V_π
  * trade-off of low sweeps. Identifiability is judged from the fit itself: the amplitude–V_π
- * correlation and B's relative standard error.
+ * correlation and B's relative standard error. Standard errors are widened for residuals
+ * correlated between frames (core/uncertainty/correlatedErrorInflation: per parameter, HAC).
  *
  * Pure: no I/O. Throws KerrError FIT_FAILED when no start converges, NOT_IDENTIFIABLE callers
  * decide (the result carries `identifiable`).
@@ -21,6 +24,7 @@ import { KerrError } from '../../errors.js';
 import { quantity, type Quantity } from '../../quantity.js';
 import { levenbergMarquardt, type CurveModel, type LmResult } from './levenbergMarquardt.js';
 import { fitRobust } from './robustFit.js';
+import { correlatedErrorInflation } from '../uncertainty/correlatedErrorInflation.js';
 
 export interface KerrCurveInput {
   voltageV: Float64Array;
@@ -60,16 +64,39 @@ export interface KerrCurveFit {
   outliers: Uint8Array;
   /** Residual over its expected standard deviation (effective-variance weighting), per input point. */
   standardizedResiduals: Float64Array;
-  /** Lag-1 autocorrelation of the standardised residuals, and the factor applied to every standard error for it. */
+  /** Lag-1 autocorrelation of the standardised residuals, and the factor applied to V_π's standard error for correlated residuals. */
   residualAutocorrelation: number;
   errorInflation: number;
+  /** Effective number of independent frames for V_π (n/n_eff is the variance inflation). */
+  effectiveFrames: number;
+  /** Every start's final residual sum of squares, convergence and V_π, in start order. */
+  startResults: FitStart[];
   /** Standard deviation of the intensity noise alone (same units as intensity). */
   intensityNoise: number;
   /** Evaluate the fitted model at a voltage. */
   predict(voltageV: number): number;
 }
 
+export interface FitStart {
+  rss: number;
+  converged: boolean;
+  reason: string;
+  halfWaveV: number;
+}
+
 const DEG = Math.PI / 180;
+
+/**
+ * Whether start result a beats b. Same status: the lower residual. A start that did not converge
+ * (even after refining) beats a converged one only with a residual lower by more than
+ * UNCONVERGED_MARGIN (1 %): a clearly better fit is not dropped for its status, while a ridge that
+ * creeps towards a bound (a sweep too low to fix V_π) does not replace a converged minimum.
+ */
+const UNCONVERGED_MARGIN = 0.01;
+function betterStart(a: LmResult, b: LmResult): boolean {
+  if (a.converged === b.converged) return a.rss < b.rss;
+  return a.converged ? a.rss <= b.rss * (1 + UNCONVERGED_MARGIN) : a.rss < b.rss * (1 - UNCONVERGED_MARGIN);
+}
 
 /** sin²(2θ) factor and static retardance folded into a model with parameters [floor, amp, vpi] or [floor, vpi]. */
 function makeModel(angleFactor: number, staticRad: number, fixedAmp: number | null): CurveModel {
@@ -204,6 +231,7 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
 
   const basis = new Float64Array(n);
   let best: { res: LmResult; start: number[] } | null = null;
+  const startResults: FitStart[] = [];
   for (const vpi of guesses) {
     for (let i = 0; i < n; i++) {
       const s = Math.sin((Math.PI / 2) * (voltageV[i]! / vpi) ** 2 + staticRad / 2);
@@ -218,9 +246,15 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
       for (let i = 0; i < n; i++) r += intensity[i]! - fixedAmp * basis[i]!;
       start = [r / n, vpi];
     }
-    const res = levenbergMarquardt(model, voltageV, intensity, start, { lower, upper, maxIterations: 200 });
+    let res = levenbergMarquardt(model, voltageV, intensity, start, { lower, upper, maxIterations: 200 });
+    // A start that ran out of iterations is refined further from where it stopped, never dropped
+    // for a converged start with a worse residual.
+    for (let more = 0; more < 3 && res.reason === 'max-iterations' && Number.isFinite(res.rss); more++) {
+      res = levenbergMarquardt(model, voltageV, intensity, Array.from(res.params), { lower, upper, maxIterations: 400 });
+    }
     if (!Number.isFinite(res.rss)) continue;
-    if (best === null || (res.converged && !best.res.converged) || (res.converged === best.res.converged && res.rss < best.res.rss)) {
+    startResults.push({ rss: res.rss, converged: res.converged, reason: res.reason, halfWaveV: res.params[nParams - 1]! });
+    if (best === null || betterStart(res, best.res)) {
       best = { res, start: Array.from(res.params) };
     }
   }
@@ -271,12 +305,24 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
     standardizedResiduals[i] = r / Math.sqrt(s0sq + slope2[i]!);
   }
   // Neighbouring frames share errors (compression, log interpolation, slow flicker), so the
-  // residuals are autocorrelated and the least-squares errors too small. Treat them as AR(1)
-  // with lag-1 correlation ρ: the effective number of points is n·(1 − ρ)/(1 + ρ), so every
-  // standard error grows by √((1 + ρ)/(1 − ρ)) (Bence, Ecology 76, 628 (1995); common practice).
+  // residuals are correlated in time and the least-squares errors too small: each parameter's
+  // error grows by √(n/n_eff), n_eff its effective number of independent frames (HAC estimate,
+  // see correlatedErrorInflation). Frames are in time order here (the caller keeps them so).
   const rho = lagOneCorrelation(standardizedResiduals);
-  const inflation = rho > 0 ? Math.sqrt((1 + rho) / (1 - rho)) : 1;
-  const stdErr = Float64Array.from(final.stdErr, (e) => e * inflation);
+  const grad = new Float64Array(n * nParams);
+  const row = new Float64Array(nParams);
+  const fitWeights = new Float64Array(n);
+  const residuals = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    if (model.gradient) model.gradient(p, voltageV[i]!, row);
+    grad.set(row, i * nParams);
+    fitWeights[i] = baseWeights[i]! * (input.robust !== false ? weights[i]! : 1);
+    residuals[i] = intensity[i]! - model.value(p, voltageV[i]!);
+  }
+  const correlated = correlatedErrorInflation(grad, residuals, fitWeights, nParams);
+  const stdErrStatistical = Float64Array.from(final.stdErr, (e, j) => e * correlated.inflation[j]!);
+  const stdErr = stdErrStatistical;
+  const inflation = correlated.inflation[nParams - 1]!;
   const vpiIdx = nParams - 1;
   const vpi = p[vpiIdx]!;
   const vpiErr = stdErr[vpiIdx]!;
@@ -308,6 +354,8 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
     standardizedResiduals,
     residualAutocorrelation: rho,
     errorInflation: inflation,
+    effectiveFrames: correlated.effectiveFrames[nParams - 1]!,
+    startResults,
     intensityNoise: Math.sqrt(s0sq),
     predict: (v: number) => model.value(p, v),
   };

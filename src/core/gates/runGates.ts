@@ -1,0 +1,71 @@
+/**
+ * The gates a run must pass before its figures are printed as numbers (issue: "a confident wrong
+ * number is the worst defect"). Each failed gate gives a stable code and a one-line reason; the
+ * run is then written but marked not valid, and `analyze` exits 3.
+ *
+ * Gates (thresholds are this tool's choices, checked by the coverage study in docs/uncertainty.md):
+ * - figures-finite: B, V_π and their uncertainties are finite numbers.
+ * - fit-not-converged: the fit stopped without converging (after refining starts that ran out of
+ *   iterations).
+ * - not-identifiable: the sweep does not separate brightness from V_π (fit's own test).
+ * - residual-excess: the fit's robust residual scale (median-based, so a few frames at a step or a
+ *   spark do not count) exceeds RESIDUAL_EXCESS_LIMIT × the frame-to-frame noise (frameNoise) — the model does not describe the data: a log from another recording, a
+ *   wrong sync, a wrong branch. Compression-correlated residuals stay well below this limit.
+ * - sync-ambiguous: the sync search found a runner-up as good as the best offset.
+ * - compression-starved: the file holds fewer than STARVED_BITS_PER_PIXEL bits per pixel per
+ *   frame. Starved H.264 flattens a dim spot, lets it brighten frames late and makes the dark level
+ *   depend on history: in the coverage study (docs/uncertainty.md) runs below this rate were off
+ *   by up to 7σ while the rest were covered.
+ * Warnings (not gates): a Kerr constant outside the range of the built-in liquid table by more than
+ * 10× either way (`implausibleRangeMPerV2`).
+ * Pure; throws nothing.
+ */
+import type { RunGateFailure, RunWarning } from '../../result/schema.js';
+
+export const RESIDUAL_EXCESS_LIMIT = 4;
+export const STARVED_BITS_PER_PIXEL = 0.025;
+export const RESIDUAL_SIGNAL_FRACTION = 0.02;
+
+export interface GateInput {
+  kerrConstant: number;
+  kerrConstantStdErr: number;
+  halfWaveVoltageV: number;
+  halfWaveStdErrV: number;
+  converged: boolean;
+  fitReason: string;
+  identifiable: boolean;
+  maxVoltageOverHalfWave: number;
+  /** Robust scale of the fit's residuals (same units as the intensity). */
+  residualRms: number;
+  /** Fitted modulation amplitude (same units), the size of the signal. */
+  signalAmplitude: number;
+  frameNoise: number;
+  syncAmbiguous: boolean;
+  /** File bits per pixel per frame. */
+  bitsPerPixel: number;
+  /** [lowest, highest] Kerr constant of the built-in liquid table, m/V². */
+  plausibleRangeMPerV2: [number, number];
+}
+
+export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: RunWarning[] } {
+  const failures: RunGateFailure[] = [];
+  const warnings: RunWarning[] = [];
+  const fail = (gate: string, message: string) => failures.push({ gate, message });
+  if (![g.kerrConstant, g.kerrConstantStdErr, g.halfWaveVoltageV, g.halfWaveStdErrV].every(Number.isFinite)) {
+    fail('figures-finite', 'the fit gave no finite Kerr constant or uncertainty');
+  }
+  if (!g.converged) fail('fit-not-converged', `the fit stopped without converging (${g.fitReason})`);
+  if (!g.identifiable) fail('not-identifiable', 'the sweep does not reach far enough to separate brightness from the half-wave voltage (which is therefore unknown); record an open level or sweep higher if the cell allows it');
+  if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
+    fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
+  }
+  if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give --offset-s or record a drive without repeats');
+  if (Number.isFinite(g.bitsPerPixel) && g.bitsPerPixel < STARVED_BITS_PER_PIXEL) {
+    fail('compression-starved', `the clip holds only ${g.bitsPerPixel.toFixed(3)} bits per pixel per frame, so compression flattens the spot and delays its changes; record at a higher bitrate or quality setting`);
+  }
+  const [lo, hi] = g.plausibleRangeMPerV2;
+  if (Number.isFinite(g.kerrConstant) && g.kerrConstant > 0 && (g.kerrConstant < lo / 10 || g.kerrConstant > hi * 10)) {
+    warnings.push({ code: 'implausible-kerr-constant', message: `B = ${g.kerrConstant.toExponential(2)} m/V² is more than 10× outside the range of the built-in liquid table (${lo.toExponential(1)}–${hi.toExponential(1)} m/V²); check the units of the log (V, kV) and of --length-mm and --gap-mm` });
+  }
+  return { failures, warnings };
+}
