@@ -792,6 +792,11 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   const temperature = log.temperatureC ? meanSd(log.temperatureC) : null;
   // ---- uncertainty budget and gates ----
   const bitsPerPixel = (statSync(o.videoPath).size * 8) / (nFrames * info.width * info.height);
+  // The run's own response check: the correction it would make to B is not applied, so its size
+  // (and the check's own scatter) enters the budget as the camera-response term (GUM 3.2.4 / F.2.4.5:
+  // an uncorrected known effect is carried as an uncertainty). An explicit option wins.
+  const responseU = response.record.check.checked ? response.record.check.standardUncertainty.value / fit.kerrConstant.value : undefined;
+  const cameraResponseRel = o.cameraResponseRel ?? (responseU !== undefined && Number.isFinite(responseU) && responseU > 0 ? responseU : undefined);
   const offsetU = syncOffsetUncertaintyS(offsetStdErrS, fit.errorInflation, times);
   const uncertainty = runUncertainty({
     fit,
@@ -801,7 +806,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     voltsAccuracyPercent: o.voltsAccuracyPercent ?? DEFAULT_VOLTS_ACCURACY_PERCENT,
     gapM, gapToleranceM: (o.gapToleranceMm ?? 0) * MM,
     lengthM: effectiveLengthM, lengthToleranceM: (o.lengthToleranceMm ?? 0) * MM,
-    ...(o.cameraResponseRel !== undefined ? { cameraResponseRel: o.cameraResponseRel } : {}),
+    ...(cameraResponseRel !== undefined ? { cameraResponseRel } : {}),
     frames: { voltageV: voltage, intensity, include: Uint8Array.from(excluded, (e) => (e ? 0 : 1)), timesS: times },
   });
   const noiseOfFrames = frameNoise(Float64Array.from(useIdx, (f) => intensity[f]!));
