@@ -19,6 +19,7 @@ export type KerrErrorCode =
   | 'FIT_FAILED'
   | 'BAD_RESULT'
   | 'UNSAFE'
+  | 'ENVIRONMENT' // the machine said no: permissions, read-only or full disk, closed output, link loops (exit 5)
   | 'INTERNAL';
 
 export interface KerrErrorFields {

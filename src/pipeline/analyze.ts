@@ -37,6 +37,7 @@ import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
 import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
 import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 export interface AnalyzeOptions {
   videoPath: string;
@@ -107,7 +108,7 @@ function positive(value: number | undefined, what: string, option: string): numb
 /** Checks everything that can be checked before decoding starts. */
 export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   for (const [p, opt] of [[o.videoPath, 'VIDEO'], [o.voltsPath, '--volts']] as const) {
-    if (!existsSync(p)) throw new KerrError('FILE_NOT_FOUND', `${p} does not exist`, { path: opt, hint: 'Check the path' });
+    if (!existsSync(p)) throw new KerrError('FILE_NOT_FOUND', missingPathText(p, `${p} does not exist`), { path: opt, hint: 'Check the path' });
     if (!statSync(p).isFile()) throw new KerrError('FILE_NOT_FOUND', `${p} is not a file`, { path: opt, hint: 'Give the path of a file' });
   }
   positive(o.lengthMm, 'electrode length in mm', '--length-mm');
@@ -123,7 +124,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   const opens = [o.openWindowS, o.openVideoPath, o.openLevel].filter((x) => x !== undefined).length;
   if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
-  if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
+  if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', missingPathText(o.openVideoPath, `${o.openVideoPath} does not exist`), { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
 }
 
@@ -300,7 +301,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const step = chooseGridStep(info);
   const pass = await decodePass(o.videoPath, probe, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
   const nFrames = pass.frames;
-  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', `${o.videoPath} has only ${nFrames} decodable frames`, { hint: 'Record a longer clip' });
+  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', nFrames === 1 ? `${o.videoPath} has only one frame that can be decoded; at least 10 are needed` : `${o.videoPath} has only ${nFrames} frames that can be decoded; at least 10 are needed`, { hint: 'Record a longer clip' });
   const { grid } = pass;
   const cells = grid.gridWidth * grid.gridHeight;
   const times = pass.times;
@@ -455,7 +456,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
         excluded[f] = 'open-window';
       }
     }
-    if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frames (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
+    if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frame${vals.length === 1 ? '' : 's'}, at least 3 are needed (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
     openLevel = median(vals);
   }
   if (o.openVideoPath) {
@@ -509,7 +510,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     if (!Number.isFinite(voltage[f]!)) { if (!excluded[f]) excluded[f] = 'outside-log'; } else inLog++;
   }
   if (inLog < 10) {
-    throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frames with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
+    throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frame${inLog === 1 ? '' : 's'} with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
   }
 
   return {
