@@ -123,10 +123,8 @@ export function resolveOutputPath(target: string, option = '--out'): { real: str
       if (code === 'ELOOP') {
         throw new KerrError('ENVIRONMENT', `${option} ${target} leads into a loop of symbolic links (a link that points, through others, back to itself)`, { path: option, hint: 'Fix or remove the link (ls -l shows where it points), or choose another folder' });
       }
-      if (code === 'ENOTDIR') {
-        throw new KerrError('BAD_ARGUMENT', `${option} ${target} goes through a file as if it were a folder`, { path: option, hint: 'Check the path; every part before the last must be a folder' });
-      }
-      if (code !== 'ENOENT') throw environmentError(err, target, 'looking at') ?? err;
+      // ENOTDIR: a file part-way; walking up finds it and the check below names it.
+      if (code !== 'ENOENT' && code !== 'ENOTDIR') throw environmentError(err, target, 'looking at') ?? err;
       let link: string | undefined;
       try {
         if (lstatSync(p).isSymbolicLink()) link = readlinkSync(p);
