@@ -6,8 +6,9 @@
  *    lead through a dangling link or a link loop, is not on a pseudo file system (/proc, /sys),
  *    is not the current folder or above it, does not overlap any input (every input resolved
  *    through links: the output may not be, hold or lie inside an input), may be replaced (absent,
- *    an empty folder, or `force` and a folder kerrtrace wrote: it carries OUTPUT_MARKER), and can
- *    really be created and written (a probe staging folder is made and removed).
+ *    an empty folder, or `force` and a folder kerrtrace wrote: it carries OUTPUT_MARKER, which lists
+ *    the names written, and nothing was added since), and can really be created and written (a
+ *    probe staging folder is made and removed).
  * 2. Staging (`stageOutputDir`): files go into a hidden sibling `.NAME.partial-PID-TIME` that
  *    carries the marker from its first instant and is renamed into place whole.
  * 3. Kill-safe replace (`--force`): the old folder is renamed aside to `.NAME.backup-PID-TIME`,
@@ -205,6 +206,24 @@ function writtenByUs(dir: string, writtenEarlier?: (entries: string[]) => boolea
   return entries.includes(OUTPUT_MARKER) || entries.includes(LEGACY_DEMO_MARKER) || (writtenEarlier?.(entries) ?? false);
 }
 
+/** Top-level names the marker lists as written by kerrtrace, or undefined for a marker without a list. */
+function listedEntries(dir: string): string[] | undefined {
+  const m = /^files: (\[.*\])$/m.exec(safeRead(join(dir, OUTPUT_MARKER)));
+  if (!m) return undefined;
+  try {
+    const list = JSON.parse(m[1]!) as unknown;
+    return Array.isArray(list) && list.every((x) => typeof x === 'string') ? list : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+/** Rewrites the marker with the list of what the folder holds now (just before it is moved into place). */
+function writeManifest(dir: string): void {
+  const entries = readdirSync(dir).filter((e) => e !== INCOMPLETE_MARKER).sort();
+  writeFileSync(join(dir, OUTPUT_MARKER), `${MARKER_TEXT}files: ${JSON.stringify(entries)}\n`);
+}
+
 function processAlive(pid: number): boolean {
   if (pid === process.pid) return true;
   try {
@@ -347,6 +366,12 @@ function replaceableState(target: string, real: string, o: OutputCheckOptions, o
   if (!writtenByUs(real, o.writtenEarlier)) {
     throw new KerrError('FILE_EXISTS', `${target} exists and is not a folder kerrtrace wrote, so --force will not replace it`, { path: opt, hint: `Choose a new or empty folder with ${opt}` });
   }
+  const listed = listedEntries(real);
+  const added = listed === undefined ? [] : entries.filter((e) => !listed.includes(e) && e !== INCOMPLETE_MARKER);
+  if (added.length > 0) {
+    const shown = added.slice(0, 3).join(', ') + (added.length > 3 ? ', …' : '');
+    throw new KerrError('FILE_EXISTS', `${target} was written by kerrtrace but now also holds ${added.length === 1 ? 'a file' : `${added.length} files`} it did not write (${shown}), so --force will not replace it`, { path: opt, hint: `Move ${added.length === 1 ? 'it' : 'them'} elsewhere first, or choose another folder with ${opt}` });
+  }
   return 'ours';
 }
 
@@ -432,6 +457,7 @@ export function stageOutputDir(target: string, force: boolean | OutputCheckOptio
       if (done) return;
       try {
         const state = replaceableState(target, real, o, o.option ?? '--out');
+        writeManifest(staging);
         install(staging, real, state);
       } catch (err) {
         staged.abandon();
@@ -505,6 +531,7 @@ function fillEmptyFolder(staging: string, real: string): void {
     if (e === OUTPUT_MARKER) continue;
     renameSync(join(staging, e), join(real, e));
   }
+  writeManifest(real);
   unlinkSync(join(real, INCOMPLETE_MARKER));
   removeOurFolder(staging);
 }
@@ -555,6 +582,7 @@ export function openOutputDirInPlace(target: string, o: OutputCheckOptions): Sta
     commit() {
       if (done) return;
       try {
+        writeManifest(real);
         unlinkSync(join(real, INCOMPLETE_MARKER));
         faultStep('marked complete');
         if (backup !== undefined) removeBackup(backup);

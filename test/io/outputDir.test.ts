@@ -66,6 +66,17 @@ describe('the output policy', () => {
     expect(readdirSync(root)).toEqual(['made-first']);
   });
 
+  it('--force will not replace a folder it wrote once the user has added a file to it', () => {
+    const root = mkdtempSync(join(tmpdir(), 'kt-out-'));
+    const first = stageOutputDir(join(root, 'run'), false);
+    first.write('result.json', '{}');
+    first.commit();
+    expect(readFileSync(join(root, 'run', OUTPUT_MARKER), 'utf8')).toMatch(/files: \[".kerrtrace-output","result.json"\]/);
+    writeFileSync(join(root, 'run', 'my-notes.txt'), 'keep me');
+    expect(() => checkOutputDir(join(root, 'run'), true)).toThrow(/also holds a file it did not write \(my-notes\.txt\)/);
+    expect(readFileSync(join(root, 'run', 'my-notes.txt'), 'utf8')).toBe('keep me');
+  });
+
   it('refuses an output that is, holds or lies inside an input, also through links', () => {
     const root = mkdtempSync(join(tmpdir(), 'kt-out-'));
     ourFolder(join(root, 'run'), { 'clip.mp4': 'video' });

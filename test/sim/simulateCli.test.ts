@@ -40,7 +40,7 @@ function expectOneLineRefusal(file: string, pattern: RegExp): string {
   expect(lines[0]).toMatch(pattern);
   expect(r.stderr).not.toMatch(/\n\s+at /); // no stack trace
   expect(existsSync(out)).toBe(false); // nothing written
-  expect(readdirSync(work).filter((f) => f.includes('.tmp-'))).toEqual([]);
+  expect(readdirSync(work).filter((f) => f.includes('.partial-'))).toEqual([]);
   return lines[0]!;
 }
 
@@ -51,12 +51,12 @@ describe('kerrtrace simulate (command line)', () => {
     const r = run(['simulate', file, '--out', out]);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
-    expect(readdirSync(out).sort()).toEqual(['clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
+    expect(readdirSync(out).sort()).toEqual(['.kerrtrace-output', 'clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
     expect(r.stdout).toContain('15 frames');
     // a second run without --force is refused and leaves the files alone
     const again = run(['simulate', file, '--out', out]);
     expect(again.status).toBe(2);
-    expect(again.stderr).toMatch(/already holds files.*--force/);
+    expect(again.stderr).toMatch(/already exists and would be overwritten.*--force/);
     expect(run(['simulate', file, '--out', out, '--force', '--quiet']).status).toBe(0);
   });
 
