@@ -49,6 +49,8 @@ export function register(program: Command): void {
     .option('--label <name>', 'name of a run in the report; give once per run, in the same order (default: folder name)', collect, [] as string[])
     .action(
       action(async (paths: string[], o: CompareOptions) => {
+        // The output may never be, hold or lie inside a compared run (links resolved); checked first.
+        checkOutputDir(o.out as string, o.force === true, paths);
         // Plot and image libraries load only when the command runs.
         const [{ compareRuns }, { readRunResult }, { writeComparison }] = await Promise.all([
           import('../../src/compare/compareRuns.js'),
@@ -62,8 +64,6 @@ export function register(program: Command): void {
         if (o.label.length > 0 && o.label.length !== paths.length) {
           throw new KerrError('BAD_ARGUMENT', `expected one --label per run (${paths.length}) but received ${o.label.length}`, { path: '--label', hint: 'Give --label once for every run, in the same order, or leave it out' });
         }
-        // The output may never be, hold or lie inside a compared run (links resolved).
-        checkOutputDir(out, o.force === true, paths);
         const read = [];
         for (const p of paths) read.push(await readRunResult(p));
         const labels = o.label.length > 0 ? o.label : uniqueLabels(read.map((r, i) => defaultLabel(paths[i]!, r.result.label)));
