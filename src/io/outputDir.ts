@@ -248,7 +248,19 @@ export function removeOurFolder(dir: string): void {
     rmSync(join(dir, e), { recursive: true, force: true });
   }
   for (const m of [LEGACY_DEMO_MARKER, OUTPUT_MARKER]) rmSync(join(dir, m), { force: true });
-  rmdirSync(dir);
+  try {
+    rmdirSync(dir);
+  } catch (err) {
+    if (errnoOf(err) !== 'EBUSY') throw err; // a mount point stays, empty
+  }
+}
+
+function isEmptyDir(p: string): boolean {
+  try {
+    return statSync(p).isDirectory() && readdirSync(p).length === 0;
+  } catch {
+    return false;
+  }
 }
 
 const PARTIAL = /^\.(.+)\.partial-(\d+)-\d+$/;
@@ -299,11 +311,14 @@ export function recoverOutput(real: string, onNote: (text: string) => void = def
   }
   backups.sort((a, b) => b.time - a.time);
   for (const [k, b] of backups.entries()) {
-    if (k === 0 && !existsSync(real)) {
+    if (k === 0 && (!existsSync(real) || isEmptyDir(real))) {
+      if (existsSync(real)) rmdirSync(real);
       renameSync(b.path, real);
       onNote(`restored the earlier result ${real} from ${basename(b.path)}, left by an interrupted run`);
+    } else if (k > 0 || writtenByUs(real)) {
+      removeOurFolder(b.path); // the new result made it in (or an older backup)
     } else {
-      removeOurFolder(b.path);
+      onNote(`an earlier result left by an interrupted run waits in ${b.path}; ${real} now holds something else, so it was left alone`);
     }
   }
 }

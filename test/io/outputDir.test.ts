@@ -116,6 +116,22 @@ describe('the output policy', () => {
     expect(notes.join('\n')).toMatch(/restored the earlier result .*run from \.run\.backup-/);
   });
 
+  it('restores a backup into an empty folder made meanwhile, and keeps it when the path now holds something else', () => {
+    const root = mkdtempSync(join(tmpdir(), 'kt-out-'));
+    const pid = deadPid();
+    ourFolder(join(root, `.run.backup-${pid}-1`), { 'result.json': 'old' });
+    mkdirSync(join(root, 'run'));
+    recoverOutput(join(root, 'run'), () => {});
+    expect(readFileSync(join(root, 'run', 'result.json'), 'utf8')).toBe('old');
+    ourFolder(join(root, `.other.backup-${pid}-1`), { 'result.json': 'old' });
+    mkdirSync(join(root, 'other'));
+    writeFileSync(join(root, 'other', 'mine.txt'), 'user file');
+    const notes: string[] = [];
+    recoverOutput(join(root, 'other'), (n) => notes.push(n));
+    expect(existsSync(join(root, `.other.backup-${pid}-1`, 'result.json'))).toBe(true);
+    expect(notes.join()).toMatch(/waits in .*\.other\.backup-/);
+  });
+
   it('deletes the backup when the new result made it in, and leaves folders of live processes and look-alikes alone', () => {
     const root = mkdtempSync(join(tmpdir(), 'kt-out-'));
     const pid = deadPid();
