@@ -50,6 +50,8 @@ export function expectOneLine(r: CliRun, code: number, pattern: RegExp): void {
 export interface KillPlan {
   /** Kill when this step is announced (after `jitterMs`), or ... */
   atStep?: string;
+  /** ... as soon as one of these paths disappears (polled every millisecond; needs no hook), or ... */
+  whenGone?: string[];
   /** ... this long after the start. */
   afterMs?: number;
   jitterMs?: number;
@@ -92,8 +94,14 @@ export function runAndKill(args: string[], plan: KillPlan): Promise<CliRun & { k
       }
     });
     if (plan.afterMs !== undefined) setTimeout(kill, plan.afterMs);
+    const poll = plan.whenGone
+      ? setInterval(() => {
+          if (plan.whenGone!.some((p) => !existsSync(p))) kill();
+        }, 1)
+      : undefined;
     child.on('exit', (code, signal) => {
       exited = true;
+      if (poll) clearInterval(poll);
       // Let the pipes drain.
       setTimeout(() => resolvePromise({ code, signal, stdout, stderr, killed: killed && (signal !== null || code === 143 || code === 130), steps }), 20);
     });

@@ -4,11 +4,12 @@
  * either the earlier complete result or the new complete result is at the path, or a named
  * backup that the next run restores; no input is ever touched; the next run removes what the
  * killed one left behind. Kill points are the announced steps of the test-only hook
- * KERRTRACE_TEST_STEP_DELAY_MS (every step of the replace is hit) plus seeded random times.
+ * KERRTRACE_TEST_STEP_DELAY_MS (every step of the replace is hit), seeded random times, and,
+ * without any hook, the moment a large earlier result starts to disappear.
  * Kills that land before the process ends are counted: at least 52 (38 compare, 14 analyze), in
  * about 4 minutes on two busy cores.
  */
-import { cpSync, existsSync, mkdirSync, mkdtempSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -83,6 +84,36 @@ describe.skipIf(!BUILT)('kill at any moment of writing or replacing', () => {
     expect(completeComparisonLabel(out)).toBe('final-a+final-b');
     expect(leftovers(out)).toEqual([]);
     expect(hashTree(inputs)).toEqual(inputHashes);
+  }, 600_000);
+
+  it('compare --force over a large earlier result: kills the moment the earlier result starts to go (no hook needed)', async () => {
+    // The earlier result gets 4000 extra files in plots/, so deleting it takes a while; the kill
+    // lands as soon as any of its files disappears, wherever that happens in the replace.
+    const work = mkdtempSync(join(tmpdir(), 'kt-kill-big-'));
+    const runs = [join(FIXTURE_RESULTS, 'before'), join(FIXTURE_RESULTS, 'after')];
+    const out = join(work, 'cmp');
+    const args = (label: string) => ['compare', ...runs, '--out', out, '--force', '--label', `${label}-a`, '--label', `${label}-b`];
+    const first = kerrtrace(args('v0'));
+    expect(first.code, first.stderr).toBe(0);
+    let current = completeComparisonLabel(out);
+    let landed = 0;
+    for (let i = 1; i <= 8; i++) {
+      if (!existsSync(join(out, 'plots', 'bulk-0000.txt'))) for (let k = 0; k < 4000; k++) writeFileSync(join(out, 'plots', `bulk-${String(k).padStart(4, '0')}.txt`), 'x');
+      const watched = [join(out, '.kerrtrace-output'), join(out, 'comparison.json'), join(out, 'comparison.html'), join(out, 'plots', 'bulk-0000.txt'), join(out, 'plots', 'bulk-3999.txt')];
+      const r = await runAndKill(args(`v${i}`), { whenGone: watched, signal: i % 2 === 0 ? 'SIGTERM' : 'SIGKILL' });
+      if (r.killed) landed++;
+      current = checkAfterKill(out, current, `v${i}-a+v${i}-b`, completeComparisonLabel, () => {
+        const next = kerrtrace(['compare', ...runs, '--out', out]);
+        expect(next.stderr).toMatch(/restored the earlier result/);
+      });
+    }
+    // With the policy the earlier result leaves the path by one rename and is deleted aside, so
+    // fewer kills land than against the old delete-then-rename (which lost the result at once).
+    expect(landed).toBeGreaterThanOrEqual(2);
+    kills += landed;
+    const last = kerrtrace(args('final'));
+    expect(last.code, last.stderr).toBe(0);
+    expect(leftovers(out)).toEqual([]);
   }, 600_000);
 
   it('analyze --force: 14 kills that land at every step of the replace and at random times lose no result and touch no input', async () => {
