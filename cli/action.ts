@@ -1,9 +1,15 @@
 /**
- * Wraps every command's action: a KerrError becomes one line on stderr and exit code 2 (bad input)
- * or 3 (a tool or computation failed); anything else is an internal error, reported in one line
- * with a request to file an issue (set KERRTRACE_DEBUG=1 for the stack).
+ * Wraps every command's action and turns every failure into one line on stderr and an exit code
+ * (the table is in README "Exit codes" and DEVELOPERS.md):
+ *   2  bad input or usage (a KerrError with an input code: bad option, missing file, output refused)
+ *   3  a tool or the computation failed (ffmpeg missing or failing, the fit could not be made)
+ *   4  an internal error: a bug in kerrtrace (one line asking for a report; KERRTRACE_DEBUG=1 shows the stack)
+ *   5  the environment said no: permissions, read-only or full disk, closed or full stdout, link
+ *      loops, too many open files (KerrError ENVIRONMENT, or a raw system error such as EACCES)
+ * 130/143 interrupted by SIGINT/SIGTERM (staging folders removed, earlier results kept).
  */
-import { isKerrError } from '../src/errors.js';
+import { isKerrError, type KerrError } from '../src/errors.js';
+import { environmentError } from '../src/io/environmentError.js';
 
 const INPUT_CODES = new Set([
   'BAD_ARGUMENT', 'FILE_NOT_FOUND', 'FILE_EXISTS', 'NOT_A_VIDEO', 'TRUNCATED_MEDIA', 'BAD_REGION',
@@ -11,16 +17,34 @@ const INPUT_CODES = new Set([
   'UNSUPPORTED_ENCODING', 'BAD_PROFILE',
 ]);
 
+/** Exit codes, named. */
+export const EXIT = { ok: 0, input: 2, failed: 3, internal: 4, environment: 5 } as const;
+
+/** Writes to stderr without ever throwing (stderr may be closed too). */
+export function say(line: string): void {
+  try {
+    process.stderr.write(line);
+  } catch {
+    // nowhere left to tell
+  }
+}
+
+export function exitCodeFor(err: KerrError): number {
+  if (err.code === 'ENVIRONMENT') return EXIT.environment;
+  return INPUT_CODES.has(err.code) ? EXIT.input : EXIT.failed;
+}
+
 export function reportError(err: unknown): number {
-  if (isKerrError(err)) {
-    process.stderr.write(`kerrtrace: ${err.oneLine()}\n`);
-    if (process.env.KERRTRACE_DEBUG) process.stderr.write(`${err.stack ?? ''}\n`);
-    return INPUT_CODES.has(err.code) ? 2 : 3;
+  const known = isKerrError(err) ? err : environmentError(err);
+  if (known) {
+    say(`kerrtrace: ${known.oneLine()}\n`);
+    if (process.env.KERRTRACE_DEBUG) say(`${(err as Error).stack ?? ''}\n`);
+    return exitCodeFor(known);
   }
   const message = err instanceof Error ? err.message : String(err);
-  process.stderr.write(`kerrtrace: internal error: ${message}. Please report it with the command you ran (KERRTRACE_DEBUG=1 shows details)\n`);
-  if (process.env.KERRTRACE_DEBUG && err instanceof Error) process.stderr.write(`${err.stack ?? ''}\n`);
-  return 4;
+  say(`kerrtrace: internal error: ${message}. Please report it with the command you ran (KERRTRACE_DEBUG=1 shows details)\n`);
+  if (process.env.KERRTRACE_DEBUG && err instanceof Error) say(`${err.stack ?? ''}\n`);
+  return EXIT.internal;
 }
 
 export function action<A extends unknown[]>(fn: (...args: A) => Promise<void> | void): (...args: A) => Promise<void> {

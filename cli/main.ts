@@ -4,7 +4,9 @@
  */
 import { Command, CommanderError } from 'commander';
 import { locate } from '../src/media/ffmpegPaths.js';
-import { reportError } from './action.js';
+import { writeSync } from 'node:fs';
+import { EXIT, reportError, say } from './action.js';
+import { guardStdout, installSignalCleanup, stdoutFailureLine } from './guardStreams.js';
 import { toolVersion } from './toolVersion.js';
 import { registerCommands } from './commands/index.js';
 
@@ -19,6 +21,9 @@ function versionText(): string {
   return `kerrtrace ${toolVersion()}\nffmpeg ${ff}`;
 }
 
+guardStdout();
+installSignalCleanup();
+
 const program = new Command();
 program
   .name('kerrtrace')
@@ -31,7 +36,13 @@ program
   });
 
 program.on('option:version', () => {
-  process.stdout.write(`${versionText()}\n`);
+  // Written synchronously so that a closed or full stdout is reported here, in one line.
+  try {
+    writeSync(1, `${versionText()}\n`);
+  } catch (err) {
+    say(`${stdoutFailureLine((err as NodeJS.ErrnoException).code)}\n`);
+    process.exit(EXIT.environment);
+  }
   process.exit(0);
 });
 

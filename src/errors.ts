@@ -22,6 +22,7 @@ export type KerrErrorCode =
   | 'UNSAFE'
   | 'UNSUPPORTED_ENCODING' // a colour encoding (transfer, matrix) that cannot be decoded faithfully
   | 'BAD_PROFILE' // a camera response profile that is unreadable or does not fit the footage
+  | 'ENVIRONMENT' // the machine said no: permissions, read-only or full disk, closed output, link loops (exit 5)
   | 'INTERNAL';
 
 export interface KerrErrorFields {

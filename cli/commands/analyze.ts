@@ -129,7 +129,8 @@ export function register(program: Command): void {
       const { checkAnalyzeOptions, defaultOutDir } = await import('../../src/pipeline/analyze.js');
       checkAnalyzeOptions(o);
       const outDir = c.out ?? defaultOutDir(video);
-      checkOutputDir(outDir, c.force === true, [video, o.voltsPath]);
+      // Every input, links resolved: the output may never be, hold or lie inside one of them.
+      checkOutputDir(outDir, c.force === true, [video, o.voltsPath, ...(c.openVideo !== undefined ? [c.openVideo] : []), ...(c.baseline !== undefined ? [c.baseline] : [])]);
       const [{ analyzeWithProducts }, { finishRun }, { readRunResult }] = await Promise.all([
         import('../../src/pipeline/analyzeWithProducts.js'),
         import('../../src/pipeline/finishRun.js'),

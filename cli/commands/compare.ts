@@ -8,6 +8,7 @@ import type { Command } from 'commander';
 import { basename, dirname, resolve } from 'node:path';
 import { action } from '../action.js';
 import { KerrError } from '../../src/errors.js';
+import { checkOutputDir } from '../../src/io/outputDir.js';
 
 interface CompareOptions {
   out?: string;
@@ -48,6 +49,8 @@ export function register(program: Command): void {
     .option('--label <name>', 'name of a run in the report; give once per run, in the same order (default: folder name)', collect, [] as string[])
     .action(
       action(async (paths: string[], o: CompareOptions) => {
+        // The output may never be, hold or lie inside a compared run (links resolved); checked first.
+        checkOutputDir(o.out as string, o.force === true, paths);
         // Plot and image libraries load only when the command runs.
         const [{ compareRuns }, { readRunResult }, { writeComparison }] = await Promise.all([
           import('../../src/compare/compareRuns.js'),
@@ -56,7 +59,7 @@ export function register(program: Command): void {
         ]);
         const out = o.out as string;
         if (paths.length < 2) {
-          throw new KerrError('BAD_ARGUMENT', `expected at least two results to compare but received ${paths.length}`, { hint: 'Give two or more result.json files or run folders' });
+          throw new KerrError('BAD_ARGUMENT', `compare needs at least two results but received only ${paths.length === 1 ? 'one' : paths.length}`, { hint: 'Give two or more result.json files or run folders' });
         }
         if (o.label.length > 0 && o.label.length !== paths.length) {
           throw new KerrError('BAD_ARGUMENT', `expected one --label per run (${paths.length}) but received ${o.label.length}`, { path: '--label', hint: 'Give --label once for every run, in the same order, or leave it out' });
@@ -68,7 +71,7 @@ export function register(program: Command): void {
           allowDifferentCells: o.allowDifferentCells ?? false,
           sources: read.map((r) => r.source),
         });
-        const { files } = await writeComparison(out, comparison, { force: o.force ?? false });
+        const { files } = await writeComparison(out, comparison, { force: o.force ?? false, inputs: paths });
         for (const v of comparison.verdicts) process.stdout.write(`${v}\n`);
         for (const w of comparison.warnings) process.stdout.write(`warning: ${w.message}\n`);
         process.stdout.write(`wrote ${resolve(out, files.html ?? 'comparison.html')}\n`);

@@ -15,7 +15,7 @@ export function register(program: Command): void {
     .command('demo')
     .description('run the whole job on built-in demo data: a liquid before and after purification (all numbers invented)')
     .option('--out <dir>', 'output folder', 'kerrtrace-demo')
-    .option('--force', 'replace the output folder even if it is not an earlier demo')
+    .option('--force', 'replace an output folder written by kerrtrace even if it is not an earlier demo (never any other folder)')
     .option('--quiet', 'no progress')
     .action(action(async (c: { out: string; force?: boolean; quiet?: boolean }) => {
       const started = Date.now();

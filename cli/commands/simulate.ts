@@ -29,7 +29,7 @@ export function register(program: Command): void {
     .description('render synthetic bench footage with known truth from a scenario file (docs/scenario.md)')
     .argument('<scenario>', 'scenario JSON file, e.g. scenarios/example-ramp.json')
     .requiredOption('--out <dir>', 'output folder for clip.mp4, volts.csv, truth.json and scenario.json')
-    .option('--force', 'replace those four files in an existing, non-empty folder')
+    .option('--force', 'replace an existing folder written by kerrtrace (never one holding other files or the scenario)')
     .option('--seed <n>', 'use this random seed instead of the scenario\'s')
     .option('--quiet', 'print nothing except errors')
     .action(action(async (scenarioPath: string, opts: SimulateCliOptions) => {
@@ -40,7 +40,7 @@ export function register(program: Command): void {
       const progress = makeProgress('rendering', opts.quiet === true);
       let summary;
       try {
-        summary = await simulateRun(scenario, opts.out, { force: opts.force === true, onProgress: (done, total) => progress.update(done, total) });
+        summary = await simulateRun(scenario, opts.out, { force: opts.force === true, inputs: [scenarioPath], onProgress: (done, total) => progress.update(done, total) });
       } finally {
         progress.stop();
       }

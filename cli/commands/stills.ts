@@ -192,6 +192,7 @@ export function register(program: Command): void {
           result.warnings.push({ code: 'overlay-photo', message: `regions.png was not drawn: ${err.message}` });
         }
         const written = await writeRunDir(outDir, o.force === true, {
+          inputs: [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])],
           result,
           trace,
           extraFiles: { 'stills.csv': stillsCsv(series), ...(regionsPng ? { 'regions.png': regionsPng } : {}) },

@@ -4,15 +4,14 @@
  *
  * Per-frame linear brightness of each region as CSV (columns in docs/trace-csv.md), to stdout or to
  * a file. Every argument is checked, and the output is checked not to overwrite anything, before
- * the video is decoded; the file is written to a temporary name and renamed at the end, so a failed
- * run leaves nothing behind.
+ * the video is decoded (src/io/outputDir.ts checkOutputFile: links resolved, never the input); the
+ * file is written to a temporary name and renamed at the end, so a failed run leaves nothing behind.
  */
 import type { Command } from 'commander';
-import { existsSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
 import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
 import { KerrError } from '../../src/errors.js';
+import { checkOutputFile, writeOutputFile } from '../../src/io/outputDir.js';
 import { parseTransfer } from '../../src/core/camera/transfer.js';
 import type { Rect } from '../../src/media/types.js';
 import { parseRect, validateRect } from '../../src/measure/rect.js';
@@ -29,42 +28,6 @@ interface TraceCliOptions {
 }
 
 const collect = (value: string, previous: string[] | undefined): string[] => [...(previous ?? []), value];
-
-/** Refuses, before any work, an output that exists (without --force), is the input, or has no folder. */
-export function checkOutputFile(out: string, force: boolean, inputs: string[]): void {
-  const target = resolve(out);
-  if (inputs.some((i) => resolve(i) === target)) {
-    throw new KerrError('FILE_EXISTS', `the output ${out} is the input video`, { path: '--out', hint: 'Give another file name with --out' });
-  }
-  const folder = dirname(target);
-  if (!existsSync(folder) || !statSync(folder).isDirectory()) {
-    throw new KerrError('BAD_ARGUMENT', `the folder for --out ${out} does not exist`, { path: '--out', hint: `Create ${dirname(out)} first or choose another path` });
-  }
-  if (existsSync(target)) {
-    if (statSync(target).isDirectory()) {
-      throw new KerrError('BAD_ARGUMENT', `--out ${out} is a folder`, { path: '--out', hint: 'Give a file name such as trace.csv' });
-    }
-    if (!force) {
-      throw new KerrError('FILE_EXISTS', `${out} already exists and would be overwritten`, { path: '--out', hint: 'Choose another name with --out, or add --force to replace it' });
-    }
-  }
-}
-
-/** Writes text to a temporary file beside the target, then renames it into place. */
-export function writeFileAtomic(out: string, text: string, force: boolean): void {
-  const target = resolve(out);
-  const temp = join(dirname(target), `.${basename(target)}.partial-${process.pid}-${Date.now()}`);
-  try {
-    writeFileSync(temp, text);
-    if (existsSync(target) && !force) {
-      throw new KerrError('FILE_EXISTS', `${out} appeared while the trace was running`, { path: '--out', hint: 'Run again with another --out or with --force' });
-    }
-    renameSync(temp, target);
-  } catch (e) {
-    rmSync(temp, { force: true });
-    throw e;
-  }
-}
 
 export function register(program: Command): void {
   program
@@ -114,14 +77,9 @@ export function register(program: Command): void {
       }
       const csv = regionTraceCsv(trace);
       if (c.out !== undefined) {
-        writeFileAtomic(c.out, csv, c.force === true);
+        writeOutputFile(c.out, csv, c.force === true);
       } else {
-        process.stdout.on('error', (e: NodeJS.ErrnoException) => {
-          if (e.code === 'EPIPE') return; // the reader stopped early (e.g. piped into head): not an error
-          process.stderr.write(`kerrtrace: could not write the CSV to standard output (${e.code ?? e.message})\n`);
-          process.exitCode = 3;
-        });
-        process.stdout.write(csv);
+        process.stdout.write(csv); // a closed or full stdout is reported once by cli/main.ts (exit 5)
       }
       if (!quiet) {
         for (const note of trace.notes) process.stderr.write(`kerrtrace: note: ${note}\n`);

@@ -12,6 +12,7 @@ import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import { KerrError } from '../errors.js';
 import { READABLE_RESULT_SCHEMA_VERSIONS, type InputFile, type RunResult } from '../result/schema.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 /** Every top-level key of RunResult; the Record type makes the compiler flag a key added to the schema but not here. */
 const KNOWN_KEYS: Record<keyof RunResult, true> = {
@@ -30,7 +31,7 @@ export async function readRunResult(pathArg: string): Promise<{ result: RunResul
   try {
     info = await stat(pathArg);
   } catch {
-    throw bad(pathArg, `no result file at ${pathArg}`, 'Give the result.json written by `kerrtrace analyze`, or the folder that holds it');
+    throw bad(pathArg, missingPathText(pathArg, `no result file at ${pathArg}`), 'Give the result.json written by `kerrtrace analyze`, or the folder that holds it');
   }
   if (info.isDirectory()) {
     file = join(pathArg, 'result.json');

@@ -2,11 +2,14 @@
  * Writes a comparison into `dir`: comparison.html (self-contained, like the run report),
  * comparison.json (the Comparison plus when and by which version it was written),
  * comparison.csv, summary.md, and plots/compare-<figure>.svg/.png.
- * Refuses, before writing anything, when any of these files already exists and `force` is not
- * set (KerrError FILE_EXISTS, one line). Each file is written to a temporary name and renamed
- * into place. Returns {files: {key: path relative to dir}}.
+ * The folder is staged and moved into place whole under the output policy of src/io/outputDir.ts:
+ * refused (KerrError FILE_EXISTS, one line) when it exists and `force` is not set, when it is not a
+ * folder kerrtrace wrote, or when it is, holds or lies inside one of `inputs` (the compared runs).
+ * A system error while writing is an ENVIRONMENT KerrError naming `dir`.
+ * Returns {files: {key: path relative to dir}}.
  * @example await writeComparison('cmp', compareRuns([a, b], ['before', 'after']), { force: false })
  */
+import { environmentError } from '../io/environmentError.js';
 import { stageOutputDir } from '../io/outputDir.js';
 import { figure } from '../report/figureCatalogue.js';
 import { guideLink } from '../report/guideLink.js';
@@ -24,6 +27,8 @@ export interface WriteComparisonOptions {
   createdAt?: string;
   /** Tool version written into the files; defaults to the installed package's. */
   toolVersion?: string;
+  /** The compared runs' files or folders: `dir` may never be, hold or lie inside one of them. */
+  inputs?: string[];
 }
 
 export async function writeComparison(dir: string, comparison: Comparison, opts: WriteComparisonOptions = {}): Promise<{ files: Record<string, string> }> {
@@ -41,7 +46,7 @@ export async function writeComparison(dir: string, comparison: Comparison, opts:
     planned[`${f.key}Png`] = `plots/compare-${f.key}.png`;
   }
   // The folder is written whole or not at all (staged beside the target, then renamed).
-  const staged = stageOutputDir(dir, opts.force === true);
+  const staged = stageOutputDir(dir, opts.force === true, opts.inputs ?? []);
   try {
     const plots: ComparisonPlot[] = [];
     for (const f of plotted) {
@@ -58,7 +63,7 @@ export async function writeComparison(dir: string, comparison: Comparison, opts:
     staged.commit();
   } catch (err) {
     staged.abandon();
-    throw err;
+    throw environmentError(err, dir, 'writing') ?? err;
   }
   return { files: planned };
 }

@@ -2,11 +2,12 @@
  * The demo a newcomer runs first: simulate the before/after purification runs from the built-in
  * scenarios, analyse both, compare them and write everything under one folder.
  */
-import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import sharp from 'sharp';
 import { renderStillPhotos } from '../sim/renderStillPhotos.js';
 import { join, resolve } from 'node:path';
-import { KerrError } from '../errors.js';
+import { environmentError } from '../io/environmentError.js';
+import { openOutputDirInPlace } from '../io/outputDir.js';
 import { sha256File } from '../io/sha256File.js';
 import { parseScenario } from '../sim/scenario.js';
 import { simulateRun } from '../sim/simulate.js';
@@ -39,21 +40,27 @@ export interface DemoOutput {
 }
 
 /**
- * A folder that holds an earlier demo (it carries a marker file) is replaced; any other existing
- * folder is left alone unless `force` is set.
+ * Writes under the output policy (src/io/outputDir.ts), in place because the demo's files name
+ * each other by absolute path: a folder holding an earlier demo (its marker file) is replaced, with
+ * or without `force`; `force` extends that to any folder kerrtrace wrote; a folder kerrtrace did
+ * not write, the current folder (`--out .`) or a folder above it is never replaced. The old demo
+ * is moved to a backup first and deleted only when the new one is complete, so a kill at any
+ * moment leaves the old demo or the new one (the next run restores the backup).
  */
 export async function runDemo(o: DemoOptions): Promise<DemoOutput> {
-  const outDir = resolve(o.outDir);
-  if (existsSync(outDir)) {
-    if (!existsSync(join(outDir, MARKER)) && !o.force) {
-      throw new KerrError('FILE_EXISTS', `${o.outDir} already exists and is not an earlier demo folder`, {
-        path: '--out',
-        hint: 'Choose another folder with --out, or add --force to replace it',
-      });
-    }
-    rmSync(outDir, { recursive: true, force: true });
+  const earlierDemo = existsSync(join(resolve(o.outDir), MARKER));
+  const dir = openOutputDirInPlace(o.outDir, { force: o.force || earlierDemo });
+  try {
+    const result = await writeDemo(o, dir.path);
+    dir.commit();
+    return result;
+  } catch (err) {
+    dir.abandon();
+    throw environmentError(err, o.outDir, 'writing') ?? err;
   }
-  mkdirSync(outDir, { recursive: true });
+}
+
+async function writeDemo(o: DemoOptions, outDir: string): Promise<DemoOutput> {
   writeFileSync(join(outDir, MARKER), 'This folder was written by `kerrtrace demo` and is replaced when the demo runs again.\n');
   const runs: DemoOutput['runs'] = [];
   for (const [name, scenarioJson] of [['before', DEMO_BEFORE], ['after', DEMO_AFTER]] as const) {

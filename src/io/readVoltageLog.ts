@@ -14,6 +14,7 @@
 import { readFile, stat } from 'node:fs/promises';
 import { KerrError } from '../errors.js';
 import { parseVoltageLog, type VoltageLog } from './voltageLog.js';
+import { missingPathText } from './missingPathText.js';
 
 export async function readVoltageLog(path: string): Promise<VoltageLog> {
   let bytes: Buffer;
@@ -29,8 +30,8 @@ export async function readVoltageLog(path: string): Promise<VoltageLog> {
   } catch (err) {
     if (err instanceof KerrError) throw err;
     const code = (err as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT' || code === 'ENOTDIR') {
-      throw new KerrError('FILE_NOT_FOUND', `voltage log ${path} not found`, {
+    if (code === 'ENOENT' || code === 'ENOTDIR' || code === 'ELOOP') {
+      throw new KerrError('FILE_NOT_FOUND', missingPathText(path, `voltage log ${path} not found`), {
         path,
         hint: 'check the path; export the supply log as CSV with a header such as time_s,voltage_kV',
       });

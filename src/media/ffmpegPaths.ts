@@ -5,9 +5,12 @@
  *    @ffprobe-installer/ffprobe;
  * 3. `ffmpeg` / `ffprobe` on PATH.
  * The first candidate that runs (`-version` exits 0) wins; results are cached per process.
- * Throws KerrError FFMPEG_MISSING when none runs.
+ * Throws KerrError FFMPEG_MISSING when none runs. When a candidate exists but may not be executed
+ * by this user (EACCES on spawn: e.g. the npm package installs ffprobe as mode 744, executable by
+ * its owner only), the message names the file, its mode and owner, and the `chmod a+x` to run.
  */
 import { spawnSync } from 'node:child_process';
+import { statSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { KerrError } from '../errors.js';
 
@@ -31,8 +34,25 @@ function packagedPath(tool: MediaTool): string | undefined {
   }
 }
 
+/** Candidates that exist but this user may not execute (EACCES), with the reason in words. */
+const notExecutable = new Map<string, string>();
+
+/** "mode 744, owner uid 0" for a file, or '' when it cannot be read. */
+export function describeMode(path: string): string {
+  try {
+    const st = statSync(path);
+    return `mode ${(st.mode & 0o777).toString(8)}, owner uid ${st.uid}`;
+  } catch {
+    return '';
+  }
+}
+
 function versionOf(path: string): string | undefined {
   const r = spawnSync(path, ['-version'], { encoding: 'utf8', timeout: 20_000 });
+  if ((r.error as NodeJS.ErrnoException | undefined)?.code === 'EACCES') {
+    notExecutable.set(path, describeMode(path));
+    return undefined;
+  }
   if (r.status !== 0 || typeof r.stdout !== 'string') return undefined;
   const first = r.stdout.split('\n')[0] ?? '';
   const m = /version\s+(\S+)/.exec(first);
@@ -57,14 +77,25 @@ export function locate(tool: MediaTool): { path: string; version: string } {
       return found;
     }
     if (c === fromEnv) {
+      if (notExecutable.has(c)) throw notExecutableError(tool, c);
       throw new KerrError('FFMPEG_MISSING', `${ENV_NAME[tool]} points at ${c}, which does not run as ${tool}`, {
         path: ENV_NAME[tool],
         hint: `Set ${ENV_NAME[tool]} to a working ${tool} executable or unset it`,
       });
     }
   }
+  const blocked = candidates.find((c) => notExecutable.has(c));
+  if (blocked !== undefined) throw notExecutableError(tool, blocked);
   throw new KerrError('FFMPEG_MISSING', `no working ${tool} found`, {
     hint: `Run \`npm install\` (it ships ${PACKAGE_NAME[tool]}), install ${tool} on PATH, or set ${ENV_NAME[tool]} to its path`,
+  });
+}
+
+function notExecutableError(tool: MediaTool, path: string): KerrError {
+  const mode = notExecutable.get(path);
+  return new KerrError('FFMPEG_MISSING', `${tool} at ${path} may not be run by this user (${mode || 'no execute permission'}; the npm package installs it executable by its owner only)`, {
+    path,
+    hint: `Run \`chmod a+x ${path}\` as its owner (or with sudo), or set ${ENV_NAME[tool]} to a working ${tool} that you may run`,
   });
 }
 

@@ -32,6 +32,7 @@ import { KerrError } from '../errors.js';
 import { ffprobePath, locate } from './ffmpegPaths.js';
 import { runProcess } from './runProcess.js';
 import type { ColourRange, VideoInfo } from './types.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 export type FrameTimeSource = 'pts' | 'dts' | 'nominal-rate';
 
@@ -147,8 +148,8 @@ async function checkFile(path: string): Promise<number> {
   } catch (e) {
     if (e instanceof KerrError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT' || code === 'ENOTDIR') {
-      throw new KerrError('FILE_NOT_FOUND', `no file at ${path}`, { path, hint: 'Check the spelling and the folder, or give the full path to the video' });
+    if (code === 'ENOENT' || code === 'ENOTDIR' || code === 'ELOOP') {
+      throw new KerrError('FILE_NOT_FOUND', missingPathText(path, `no file at ${path}`), { path, hint: 'Check the spelling and the folder, or give the full path to the video' });
     }
     throw new KerrError('NOT_A_VIDEO', `cannot read ${path} (${code ?? String(e)})`, { path, hint: 'Check that the file exists and that you may read it' });
   }

@@ -51,6 +51,7 @@ import { runGates } from '../core/gates/runGates.js';
 import { frameNoise } from '../core/gates/frameNoise.js';
 import { LIQUIDS } from '../data/liquids.js';
 import { RESULT_SCHEMA_VERSION, type RunResult, type RunWarning, type TraceRow, type RunEvent } from '../result/schema.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 export interface AnalyzeOptions {
   videoPath: string;
@@ -140,7 +141,7 @@ function positive(value: number | undefined, what: string, option: string): numb
 /** Checks everything that can be checked before decoding starts. */
 export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   for (const [p, opt] of [[o.videoPath, 'VIDEO'], [o.voltsPath, '--volts']] as const) {
-    if (!existsSync(p)) throw new KerrError('FILE_NOT_FOUND', `${p} does not exist`, { path: opt, hint: 'Check the path' });
+    if (!existsSync(p)) throw new KerrError('FILE_NOT_FOUND', missingPathText(p, `${p} does not exist`), { path: opt, hint: 'Check the path' });
     if (!statSync(p).isFile()) throw new KerrError('FILE_NOT_FOUND', `${p} is not a file`, { path: opt, hint: 'Give the path of a file' });
   }
   positive(o.lengthMm, 'electrode length in mm', '--length-mm');
@@ -161,7 +162,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   if (opens > 1) throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-window, --open-video and --open-level', { hint: 'They are three ways to give the same open level' });
   if (o.openWindowS && !(o.openWindowS[1] > o.openWindowS[0])) throw invalid('START:END with END after START (seconds)', '--open-window', o.openWindowS.join(':'));
   if (o.openVideoPath !== undefined && resolve(o.openVideoPath) === resolve(o.videoPath)) throw new KerrError('BAD_ARGUMENT', `the open video ${o.openVideoPath} is the run's own clip`, { path: '--open-video', hint: 'Give a separate clip recorded with the analyser parallel and no field, or --open-window START:END for a part of this clip' });
-  if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', `${o.openVideoPath} does not exist`, { path: '--open-video', hint: 'Check the path' });
+  if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', missingPathText(o.openVideoPath, `${o.openVideoPath} does not exist`), { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
   if (o.cameraProfilePath !== undefined) {
     if (o.transfer !== undefined) throw new KerrError('BAD_ARGUMENT', 'give --transfer or --camera-profile, not both', { hint: 'A camera profile replaces the transfer curve' });
@@ -346,7 +347,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const step = chooseGridStep(info);
   const pass = await decodePass(o.videoPath, probe, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
   const nFrames = pass.frames;
-  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', `${o.videoPath} has only ${nFrames} decodable frames`, { hint: 'Record a longer clip' });
+  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', nFrames === 1 ? `${o.videoPath} has only one frame that can be decoded; at least 10 are needed` : `${o.videoPath} has only ${nFrames} frames that can be decoded; at least 10 are needed`, { hint: 'Record a longer clip' });
   const { grid } = pass;
   const cells = grid.gridWidth * grid.gridHeight;
   const times = pass.times;
@@ -506,7 +507,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
         excluded[f] = 'open-turning';
       }
     }
-    if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frames (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
+    if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frame${vals.length === 1 ? '' : 's'}, at least 3 are needed (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
     openLevel = median(vals);
   }
   if (o.openVideoPath) {
@@ -570,7 +571,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   }
   if (inGaps > 0) warn('log-gap', `${inGaps} frames fall in gaps of the voltage log (intervals longer than ${GAP_FACTOR}× the median sample interval) and were left out rather than bridged`, 'voltage-log');
   if (inLog < 10) {
-    throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frames with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
+    throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s) overlap in only ${inLog} frame${inLog === 1 ? '' : 's'} with offset ${offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
   }
 
   return {

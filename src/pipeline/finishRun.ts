@@ -21,7 +21,9 @@ export async function finishRun(out: AnalyzeOutput, f: FinishOptions): Promise<s
   out.result.inputs.volts = { path: o.voltsPath, sha256: await sha256File(o.voltsPath) };
   if (o.openVideoPath) out.result.inputs.openVideo = { path: o.openVideoPath, sha256: await sha256File(o.openVideoPath) };
   if (o.cameraProfilePath) out.result.inputs.cameraProfile = { path: o.cameraProfilePath, sha256: await sha256File(o.cameraProfilePath) };
+  const baseline = out.result.inputs.baseline?.path;
   return writeRunDir(f.outDir, f.force, {
+    inputs: [o.videoPath, o.voltsPath, ...(o.openVideoPath ? [o.openVideoPath] : []), ...(baseline ? [baseline] : []), ...(o.cameraProfilePath ? [o.cameraProfilePath] : [])],
     result: out.result,
     trace: out.trace,
     ...(f.extraFiles ? { extraFiles: f.extraFiles } : {}),

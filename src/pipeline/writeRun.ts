@@ -1,7 +1,10 @@
 /**
  * Writes an analyzed run into its folder, whole or not at all: result.json, trace.csv and the
- * report files, staged in a hidden folder and renamed into place at the end.
+ * report files, staged in a hidden folder and renamed into place at the end (the output policy of
+ * src/io/outputDir.ts: never over an input, --force only over a folder kerrtrace wrote, kill-safe).
+ * A system error while writing (full disk, permissions) is an ENVIRONMENT KerrError naming outDir.
  */
+import { environmentError } from '../io/environmentError.js';
 import { stageOutputDir } from '../io/outputDir.js';
 import { traceCsv } from '../io/traceCsv.js';
 import type { RunResult, TraceRow } from '../result/schema.js';
@@ -13,10 +16,12 @@ export interface RunArtifacts {
   extraFiles?: Record<string, Uint8Array | string>;
   /** Called with the staging folder to write reports; returns the names it wrote. */
   writeReports?: (stagingDir: string, result: RunResult) => Promise<Record<string, string>>;
+  /** Every input of the run: the folder may never be, hold or lie inside one of them. */
+  inputs?: string[];
 }
 
 export async function writeRunDir(outDir: string, force: boolean, a: RunArtifacts): Promise<string> {
-  const staged = stageOutputDir(outDir, force);
+  const staged = stageOutputDir(outDir, force, a.inputs ?? []);
   try {
     const files: Record<string, string> = { result: 'result.json', trace: 'trace.csv' };
     staged.write('trace.csv', traceCsv(a.trace));
@@ -31,7 +36,7 @@ export async function writeRunDir(outDir: string, force: boolean, a: RunArtifact
     return staged.target;
   } catch (err) {
     staged.abandon();
-    throw err;
+    throw environmentError(err, outDir, 'writing') ?? err;
   }
 }
 

@@ -9,6 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { KerrError } from '../errors.js';
 import { parseScenario, type Scenario } from './scenario.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 export async function readScenarioFile(path: string, overrides: { seed?: number } = {}): Promise<Scenario> {
   let text: string;
@@ -16,7 +17,7 @@ export async function readScenarioFile(path: string, overrides: { seed?: number 
     text = await readFile(path, 'utf8');
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
-    throw new KerrError('FILE_NOT_FOUND', code === 'ENOENT' ? `scenario file ${path} not found` : `cannot read scenario file ${path} (${code ?? 'error'})`, {
+    throw new KerrError('FILE_NOT_FOUND', code === 'ENOENT' || code === 'ELOOP' ? missingPathText(path, `scenario file ${path} not found`) : `cannot read scenario file ${path} (${code ?? 'error'})`, {
       path,
       hint: 'Check the path; scenarios/example-ramp.json is a starting point',
     });

@@ -5,20 +5,24 @@
  *   DIR/truth.json   the planted parameters and the figures an analysis should recover (truth.ts)
  *   DIR/scenario.json a copy of the scenario as given
  *
- * Order of work: check the output folder (refuse to overwrite files without `force`) and find
- * ffmpeg before any rendering; render and encode into a temporary sibling folder; check the clip's
- * packet times with ffprobe against the planned frame times; only then move the files into DIR.
- * A failure removes the temporary folder, so DIR never holds a half-written run.
+ * Order of work: check the output folder under the output policy (src/io/outputDir.ts: never over
+ * an input such as the scenario file, `force` only over a folder kerrtrace wrote, or one that holds
+ * nothing but these four files) and find ffmpeg before any rendering; render and encode into the
+ * staging folder; check the clip's packet times with ffprobe against the planned frame times; only
+ * then move the folder into place whole. A failure removes the staging folder, so DIR never holds
+ * a half-written run.
  * Same scenario and seed → the same raw frames (their SHA-256 is recorded in truth.json).
  *
  * Throws KerrError FILE_EXISTS, FFMPEG_MISSING, FFMPEG_FAILED (and BAD_SCENARIO from the scenario).
  * @example await simulateRun(parseScenario(json, 'ramp.json'), 'out/ramp', { onProgress: (d, n) => {} })
  */
-import { createHash, randomBytes } from 'node:crypto';
-import { mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
-import { basename, dirname, join, resolve } from 'node:path';
+import { createHash } from 'node:crypto';
+import { readFile, writeFile } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { KerrError } from '../errors.js';
+import { environmentError } from '../io/environmentError.js';
+import { checkOutputDir, stageOutputDir, type StagedDir } from '../io/outputDir.js';
 import { locate } from '../media/ffmpegPaths.js';
 import { halfWaveVoltageV } from '../core/physics/kerr.js';
 import { isHdrTransfer, openClipEncoder, probePacketTimesS, type ClipEncoder } from './encodeClip.js';
@@ -34,8 +38,10 @@ import { buildTruth, type FrameRecord } from './truth.js';
 import { formatVoltageLog } from './voltageLogWriter.js';
 
 export interface SimulateOptions {
-  /** Replace clip.mp4, volts.csv, truth.json and scenario.json in an existing, non-empty folder. */
+  /** Replace an existing folder that kerrtrace wrote (or that holds only the four files). */
   force?: boolean;
+  /** The run's inputs (the scenario file): the output may never be, hold or lie inside one. */
+  inputs?: string[];
   /** Called after each frame is rendered and queued for encoding. */
   onProgress?: (done: number, total: number) => void;
 }
@@ -58,15 +64,14 @@ export const OUTPUT_FILES = ['clip.mp4', 'volts.csv', 'truth.json', 'scenario.js
 const FRAME_TIME_TOLERANCE_S = 5e-4;
 
 export async function simulateRun(scenario: Scenario, outDir: string, opts: SimulateOptions = {}): Promise<SimulateSummary> {
-  const target = resolve(outDir);
-  const targetExists = await checkOutputFolder(target, opts.force === true);
+  const policy = { force: opts.force === true, inputs: opts.inputs ?? [], writtenEarlier: onlySimulatorFiles };
+  checkOutputDir(outDir, policy);
   const ffmpegVersion = locate('ffmpeg').version;
   locate('ffprobe');
 
-  const parent = dirname(target);
-  await mkdir(parent, { recursive: true });
-  const tmp = join(parent, `.${basename(target)}.tmp-${process.pid}-${randomBytes(4).toString('hex')}`);
-  await mkdir(tmp);
+  const staged: StagedDir = stageOutputDir(outDir, policy);
+  const tmp = staged.path;
+  const target = staged.target;
   let encoder: ClipEncoder | null = null;
   try {
     const { camera } = scenario;
@@ -136,7 +141,7 @@ export async function simulateRun(scenario: Scenario, outDir: string, opts: Simu
     await writeFile(join(tmp, 'truth.json'), `${JSON.stringify(truth, null, 2)}\n`, 'utf8');
     await writeFile(join(tmp, 'scenario.json'), `${JSON.stringify(scenario.sourceJson, null, 2)}\n`, 'utf8');
 
-    await install(tmp, target, targetExists);
+    staged.commit();
     const { cell } = scenario;
     return {
       outDir: target,
@@ -156,48 +161,14 @@ export async function simulateRun(scenario: Scenario, outDir: string, opts: Simu
     };
   } catch (err) {
     encoder?.abort();
-    await rm(tmp, { recursive: true, force: true });
-    throw err;
+    staged.abandon();
+    throw environmentError(err, outDir, 'writing') ?? err;
   }
 }
 
-/** Returns whether the folder exists; refuses a file, or a non-empty folder without force. */
-async function checkOutputFolder(target: string, force: boolean): Promise<boolean> {
-  let info;
-  try {
-    info = await stat(target);
-  } catch {
-    return false;
-  }
-  if (!info.isDirectory()) {
-    throw new KerrError('FILE_EXISTS', `the output ${target} is a file, not a folder`, {
-      path: target,
-      hint: 'Give --out a folder name (it is created if missing)',
-    });
-  }
-  const entries = await readdir(target);
-  if (entries.length > 0 && !force) {
-    const shown = entries.slice(0, 4).join(', ') + (entries.length > 4 ? ', …' : '');
-    throw new KerrError('FILE_EXISTS', `the output folder ${target} already holds files (${shown})`, {
-      path: target,
-      hint: `Choose another --out folder, or add --force to replace ${OUTPUT_FILES.join(', ')} there`,
-    });
-  }
-  return true;
-}
-
-/** Moves the finished files from the temporary folder into place. */
-async function install(tmp: string, target: string, targetExists: boolean): Promise<void> {
-  if (!targetExists) {
-    try {
-      await rename(tmp, target);
-      return;
-    } catch {
-      await mkdir(target, { recursive: true }); // created meanwhile: fall back to moving files one by one
-    }
-  }
-  for (const name of OUTPUT_FILES) await rename(join(tmp, name), join(target, name));
-  await rm(tmp, { recursive: true, force: true });
+/** A folder holding nothing but the simulator's files was written by an earlier `simulate`. */
+function onlySimulatorFiles(entries: string[]): boolean {
+  return entries.length > 0 && entries.every((e) => (OUTPUT_FILES as readonly string[]).includes(e));
 }
 
 function checkFrameTimes(packetTimesS: number[], plannedS: Float64Array, variable: boolean): void {

@@ -16,6 +16,7 @@
 import { open, readdir, stat } from 'node:fs/promises';
 import { extname, join } from 'node:path';
 import { KerrError } from '../errors.js';
+import { missingPathText } from '../io/missingPathText.js';
 
 export type PhotoFormat = 'jpeg' | 'png' | 'tiff';
 
@@ -74,7 +75,7 @@ export async function listStillPhotos(folder: string, option = 'FOLDER'): Promis
   try {
     info = await stat(folder);
   } catch {
-    throw new KerrError('FILE_NOT_FOUND', `the photo folder ${folder} does not exist`, { path: option, hint: 'Give the folder that holds the photos' });
+    throw new KerrError('FILE_NOT_FOUND', missingPathText(folder, `the photo folder ${folder} does not exist`), { path: option, hint: 'Give the folder that holds the photos' });
   }
   if (!info.isDirectory()) {
     throw new KerrError('BAD_ARGUMENT', `${folder} is a file, not a folder of photos`, { path: option, hint: 'Give the folder that holds the photos (JPEG, PNG or TIFF)' });

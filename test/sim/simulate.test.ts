@@ -73,7 +73,7 @@ describe('simulateRun (writes clip.mp4, volts.csv, truth.json, scenario.json)', 
   it('writes a CFR clip whose ffprobe packet times and count match truth.frameTimesS', async () => {
     const progress: number[] = [];
     const summary = await simulateRun(parseScenario(cfrJson(), 'cfr.json'), cfrDir, { onProgress: (done, total) => progress.push(done / total) });
-    expect(readdirSync(cfrDir).sort()).toEqual(['clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
+    expect(readdirSync(cfrDir).sort()).toEqual(['.kerrtrace-output', 'clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
     cfrTruth = JSON.parse(readFileSync(join(cfrDir, 'truth.json'), 'utf8')) as Record<string, unknown>;
     const planned = cfrTruth.frameTimesS as number[];
     expect(planned.length).toBe(60);
@@ -141,18 +141,22 @@ describe('simulateRun (writes clip.mp4, volts.csv, truth.json, scenario.json)', 
     expect(JSON.parse(readFileSync(join(cfrDir, 'scenario.json'), 'utf8'))).toEqual(cfrJson());
   });
 
-  it('refuses to overwrite a folder that holds files without force, and replaces the four files with it', async () => {
+  it('refuses to overwrite a folder that holds files without force, and replaces a folder it wrote with it', async () => {
     const before = statSync(join(cfrDir, 'clip.mp4')).mtimeMs;
     const err = await simulateRun(parseScenario(cfrJson(), 'cfr.json'), cfrDir).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(KerrError);
     expect((err as KerrError).code).toBe('FILE_EXISTS');
     expect((err as KerrError).oneLine()).toContain('--force');
     expect(statSync(join(cfrDir, 'clip.mp4')).mtimeMs).toBe(before);
+    // --force replaces the folder whole, so never one holding a file the simulator did not write.
     writeFileSync(join(cfrDir, 'notes.txt'), 'mine');
-    await simulateRun(parseScenario({ ...cfrJson(), seed: 4 }, 'cfr.json'), cfrDir, { force: true });
+    const refused = await simulateRun(parseScenario({ ...cfrJson(), seed: 4 }, 'cfr.json'), cfrDir, { force: true }).catch((e: unknown) => e);
+    expect((refused as KerrError).oneLine()).toMatch(/did not write \(notes\.txt\)/);
     expect(readFileSync(join(cfrDir, 'notes.txt'), 'utf8')).toBe('mine');
+    rmSync(join(cfrDir, 'notes.txt'));
+    await simulateRun(parseScenario({ ...cfrJson(), seed: 4 }, 'cfr.json'), cfrDir, { force: true });
     expect(JSON.parse(readFileSync(join(cfrDir, 'truth.json'), 'utf8')).seed).toBe(4);
-    expect(readdirSync(work).filter((f) => f.includes('.tmp-'))).toEqual([]);
+    expect(readdirSync(work).filter((f) => f.includes('.partial-') || f.includes('.backup-'))).toEqual([]);
   });
 
   it('writes a VFR clip whose ffprobe packet times match the planned tick times', async () => {

@@ -41,7 +41,7 @@ function expectOneLineRefusal(file: string, pattern: RegExp): string {
   expect(lines[0]).toMatch(pattern);
   expect(r.stderr).not.toMatch(/\n\s+at /); // no stack trace
   expect(existsSync(out)).toBe(false); // nothing written
-  expect(readdirSync(work).filter((f) => f.includes('.tmp-'))).toEqual([]);
+  expect(readdirSync(work).filter((f) => f.includes('.partial-'))).toEqual([]);
   return lines[0]!;
 }
 
@@ -52,19 +52,20 @@ describe('kerrtrace simulate (command line)', () => {
     const r = run(['simulate', file, '--out', out]);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
-    expect(readdirSync(out).sort()).toEqual(['clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
+    expect(readdirSync(out).sort()).toEqual(['.kerrtrace-output', 'clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
     expect(r.stdout).toContain('15 frames');
     // a second run without --force is refused and leaves the files alone
     const again = run(['simulate', file, '--out', out]);
     expect(again.status).toBe(2);
-    expect(again.stderr).toMatch(/already holds files.*--force/);
+    expect(again.stderr).toMatch(/already exists and would be overwritten.*--force/);
   });
 
-  it('--force replaces its four files with the new run and leaves everything else in the folder alone', () => {
+  it('--force replaces the run it wrote with the new one, whole, and touches nothing beside it', () => {
     const out = join(work, 'forced-run');
+    const neighbour = join(work, 'neighbour.txt');
+    writeFileSync(neighbour, 'cell A, first fill\n'); // the user's own file beside the output
     expect(run(['simulate', scenarioFile('first.json', good()), '--out', out, '--quiet']).status).toBe(0);
     const firstLog = readFileSync(join(out, 'volts.csv'), 'utf8');
-    writeFileSync(join(out, 'notes.txt'), 'cell A, first fill\n'); // the user's own file beside ours
     const second = good();
     second.cell.kerrConstantMPerV2 = 4.8e-12;
     const r = run(['simulate', scenarioFile('second.json', second), '--out', out, '--force', '--quiet']);
@@ -75,9 +76,9 @@ describe('kerrtrace simulate (command line)', () => {
     expect(JSON.parse(readFileSync(join(out, 'scenario.json'), 'utf8')).cell.kerrConstantMPerV2).toBe(4.8e-12);
     // The drive is a fraction of V_π, so twice the B drives to 1/√2 of the voltage: another log.
     expect(readFileSync(join(out, 'volts.csv'), 'utf8')).not.toBe(firstLog);
-    expect(readFileSync(join(out, 'notes.txt'), 'utf8')).toBe('cell A, first fill\n'); // nothing else touched
-    expect(readdirSync(out).sort()).toEqual(['clip.mp4', 'notes.txt', 'scenario.json', 'truth.json', 'volts.csv']);
-    expect(readdirSync(work).filter((f) => f.includes('.tmp-'))).toEqual([]);
+    expect(readFileSync(neighbour, 'utf8')).toBe('cell A, first fill\n'); // nothing else touched
+    expect(readdirSync(out).sort()).toEqual(['.kerrtrace-output', 'clip.mp4', 'scenario.json', 'truth.json', 'volts.csv']);
+    expect(readdirSync(work).filter((f) => /\.(tmp|partial|backup)-/.test(f))).toEqual([]);
   });
 
   it('refuses an unknown key in one line naming it and the close valid key', () => {

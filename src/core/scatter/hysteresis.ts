@@ -109,7 +109,7 @@ export function hysteresis(input: HysteresisInput): Hysteresis {
   const counts = { framesUp: up.length, framesDown: down.length, framesHeld: held };
   const reach = (frames: number[]) => frames.reduce((m, f) => Math.max(m, Math.abs(voltageV[f]!)), 0);
   for (const [name, frames] of [['rising', up], ['falling', down]] as const) {
-    if (frames.length < minFrames) return { result: null, ...counts, note: `only ${frames.length} frames on ${name} voltage; record both an up- and a down-sweep` };
+    if (frames.length < minFrames) return { result: null, ...counts, note: `only ${frames.length} frame${frames.length === 1 ? '' : 's'} on ${name} voltage; record both an up- and a down-sweep` };
     if (reach(frames) < 0.5 * vMaxAll) return { result: null, ...counts, note: `the ${name} part of the sweep reaches only ${((100 * reach(frames)) / vMaxAll).toFixed(0)}% of the highest voltage` };
   }
   let fitUp: BranchFit;

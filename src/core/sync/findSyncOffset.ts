@@ -109,7 +109,7 @@ export function findSyncOffset(input: SyncInput): SyncResult {
     if ((usable === undefined || usable[k] !== 0) && Number.isFinite(intensity[k])) keep.push(k);
   }
   if (keep.length < S.minOverlapFrames) {
-    throw new KerrError('NOT_IDENTIFIABLE', `only ${keep.length} usable frames to synchronise the video with the log; at least ${S.minOverlapFrames} are needed`, {
+    throw new KerrError('NOT_IDENTIFIABLE', `only ${keep.length} usable frame${keep.length === 1 ? '' : 's'} to synchronise the video with the log; at least ${S.minOverlapFrames} are needed`, {
       path: 'sync',
       hint: 'use a longer clip, or fewer excluded frames, or give --offset-s',
     });
