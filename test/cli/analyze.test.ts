@@ -8,7 +8,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -92,14 +92,20 @@ describe('kerrtrace analyze (command line)', { tags: [benchClipTag('green_ramps'
     expect(kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report', '--label', 'first']).code).toBe(0);
     const first = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
     expect(first.label).toBe('first');
-    writeFileSync(join(out, 'stale.txt'), 'left by the first run\n');
+    // A file the user put in since is theirs: --force refuses to replace the folder and keeps it.
+    writeFileSync(join(out, 'stale.txt'), 'added by hand\n');
+    const refused = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report', '--label', 'second', '--force']);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/holds a file it did not write \(stale\.txt\), so --force will not replace it/);
+    expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).label).toBe('first');
+    expect(readFileSync(join(out, 'stale.txt'), 'utf8')).toBe('added by hand\n');
+    rmSync(join(out, 'stale.txt'));
     const r = kerrtrace(['analyze', clip, '--volts', volts, ...geometry, '--roi', roi, '--out', out, '--quiet', '--no-report', '--label', 'second', '--force']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const second = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
     expect(second.label).toBe('second'); // the content really is the new run's
     expect(second.kerrConstant.value).toBe(first.kerrConstant.value); // same inputs, same answer
-    expect(existsSync(join(out, 'stale.txt'))).toBe(false); // replaced whole, not merged
     expect(readFileSync(join(out, 'trace.csv'), 'utf8').trim().split('\n')).toHaveLength(truth.frames + 1);
     expect(readFileSync(neighbour, 'utf8')).toBe('cell A, filled Tuesday\n'); // nothing else touched
     expect([sha256(clip), sha256(volts)]).toEqual(inputsBefore);

@@ -121,7 +121,12 @@ describe('analyze: the open level two ways', () => {
     const byVideo = ok('openVideo').result;
     const byWindow = ok('openWindow').result;
     expect(byWindow.model.amplitude.value / byVideo.model.amplitude.value).toBeCloseTo(1, 9);
-    expect(byWindow.kerrConstant.value / byVideo.kerrConstant.value).toBeCloseTo(1, 9);
+    // The window run also leaves out the frames of the analyser's turning beside the window
+    // (reason "open-turning", 1.5 s either side: docs/analyze.md), so its fit sees a few frames
+    // fewer: B agrees well within one standard error, not to the last bit.
+    expect(byWindow.frames.excluded['open-turning']).toBeGreaterThan(0);
+    expect(byVideo.frames.excluded['open-turning'] ?? 0).toBe(0);
+    expect(Math.abs(byWindow.kerrConstant.value - byVideo.kerrConstant.value)).toBeLessThan(0.5 * byVideo.kerrConstant.stdErr);
   });
 });
 

@@ -42,6 +42,21 @@ function ok(name: string) {
   return { result: readResultJson(r.dir), dir: r.dir };
 }
 
+/**
+ * A run whose options describe the clip wrongly (static retardance it does not have, sRGB read as
+ * light): the fit cannot describe the data, so the residual gate marks it not valid, exit 3, with
+ * the result kept for inspection (docs/analyze.md, "Gates").
+ */
+function keptNotValid(name: string) {
+  const r = runs[name]!;
+  expect(r.cli.code, `${name}: ${r.cli.stderr}`).toBe(3);
+  expect(r.cli.stderr).toMatch(/^kerrtrace: the run failed a check: the fit leaves residuals .* marked not valid/);
+  const result = readResultJson(r.dir);
+  expect(result.validity.valid).toBe(false);
+  expect(result.validity.failures.map((f: { gate: string }) => f.gate)).toContain('residual-excess');
+  return { result, dir: r.dir };
+}
+
 /** |x − truth| within k standard errors: the tool's own claim that σ covers the truth. */
 function expectCovers(q: { value: number; stdErr: number }, truth: number, k = 3): void {
   expect(q.stdErr).toBeGreaterThan(0);
@@ -122,7 +137,7 @@ describe('analyze options on test-media/cfr-ramp', () => {
 
   it('--static-retardance-rad enters the model as δ = π·(V/V_π)² + δ_s: trace.csv\'s model column follows that formula', () => {
     const base = ok('base').result;
-    const { result: r, dir } = ok('static');
+    const { result: r, dir } = keptNotValid('static');
     expect(r.model.staticRetardanceRad).toBe(0.3);
     const vpi = r.halfWaveVoltage.value;
     const floor = r.model.floorLevel.value;
@@ -147,7 +162,7 @@ describe('analyze options on test-media/cfr-ramp', () => {
 
   it('--transfer linear reads sRGB code values as light: the floor rises against the amplitude and B moves up', () => {
     const base = ok('base').result;
-    const r = ok('linear').result;
+    const r = keptNotValid('linear').result;
     expect(base.camera.transfer).toBe('srgb');
     expect(r.camera.transfer).toBe('linear');
     // sRGB (IEC 61966-2-1) encodes light L as about L^(1/2.4): read as light, the dim floor is lifted

@@ -57,6 +57,11 @@ describe('kerrtrace compare (CLI)', () => {
     expectOneLineFailure(kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again'), /already exists .* add --force/);
     expect(readFileSync(join(work, 'again', 'comparison.json'), 'utf8')).toBe(firstJson); // refused: untouched
     const fixturesBefore = readdirSync(fixtures, { recursive: true }).map(String).sort().map((f) => [f, statSync(join(fixtures, f)).mtimeMs]);
+    // The file added by hand is the user's: --force refuses to replace the folder and keeps it.
+    expectOneLineFailure(kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again', '--force'), /holds a file it did not write \(stale\.txt\)/);
+    expect(readFileSync(join(work, 'again', 'stale.txt'), 'utf8')).toBe('left by hand\n');
+    expect(readFileSync(join(work, 'again', 'comparison.json'), 'utf8')).toBe(firstJson);
+    rmSync(join(work, 'again', 'stale.txt'));
     const r = kerrtrace('compare', join(fixtures, 'before'), join(fixtures, 'after'), '--out', 'again', '--label', 'second A', '--label', 'second B', '--force');
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
@@ -64,7 +69,6 @@ describe('kerrtrace compare (CLI)', () => {
     expect(secondJson).toContain('second A'); // the content really was replaced
     expect(secondJson).not.toContain('first A');
     expect(readFileSync(join(work, 'again', 'summary.md'), 'utf8')).toContain('second B');
-    expect(existsSync(join(work, 'again', 'stale.txt'))).toBe(false); // replaced whole, not merged
     expect(readFileSync(join(work, 'neighbour.txt'), 'utf8')).toBe('not kerrtrace\'s\n'); // nothing else touched
     expect(readdirSync(fixtures, { recursive: true }).map(String).sort().map((f) => [f, statSync(join(fixtures, f)).mtimeMs])).toEqual(fixturesBefore);
   });

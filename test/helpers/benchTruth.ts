@@ -41,6 +41,7 @@ interface Headline {
   syncOffset: { value: number };
   floorFraction: { value: number };
   contrastRatio: { value: number };
+  uncertainty?: { kerrConstant?: { statisticalStdErr?: number } };
 }
 
 /** Every headline figure of a run (result.json) against the clip's truth, with the bounds above. */
@@ -55,10 +56,16 @@ export function expectHeadlineMatchesTruth(r: Headline, t: BenchTruth): void {
   expect(cHi).toBeGreaterThan(t.contrastRatio);
   expect(r.contrastRatio.value, 'contrast (from the floor bound)').toBeGreaterThan(cLo);
   expect(r.contrastRatio.value, 'contrast (from the floor bound)').toBeLessThan(cHi);
-  // The stated uncertainty is honest and useful: the truth lies within 3 standard errors, and the
-  // standard error is no larger than the 1 % a careful analysis reaches, so a huge σ cannot pass.
+  // The stated uncertainty is honest and useful: the truth lies within 3 combined standard errors;
+  // the statistical part alone is no larger than the 1 % a careful analysis reaches, so a huge σ
+  // cannot pass. The combined σ also carries Type B terms the renderer does not know about
+  // (logger calibration, default ±1 %; the camera response assumed from the tags, which a sweep
+  // short of V_π checks only loosely: docs/uncertainty.md), so it is bounded separately, at 10 %.
   const sigma = r.kerrConstant.stdErr ?? NaN;
   expect(sigma).toBeGreaterThan(0);
   expect(Math.abs(r.kerrConstant.value - t.B), 'truth within 3 σ(B)').toBeLessThan(COVERAGE_K * sigma);
-  expect(sigma / t.B, 'σ(B) under the renderer\'s 1 %').toBeLessThan(B_REL);
+  const statistical = r.uncertainty?.kerrConstant?.statisticalStdErr ?? NaN;
+  expect(statistical / t.B, 'statistical σ(B) under the renderer\'s 1 %').toBeLessThan(B_REL);
+  expect(statistical).toBeLessThanOrEqual(sigma);
+  expect(sigma / t.B, 'combined σ(B) under 10 %').toBeLessThan(0.1);
 }

@@ -157,7 +157,7 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
     gamma: { value: gamma, stdErr: gammaErr },
     kerrConstantAtGamma: { value: bGamma, stdErr: bGammaErr, unit: 'm/V^2' },
     relativeShiftB: bGamma / input.kerrConstant - 1,
-    standardUncertainty: { value: Math.sqrt(shift * shift + extraVar), unit: 'm/V^2' },
+    standardUncertainty: { value: Math.sqrt(Math.max(shift * shift, extraVar)), unit: 'm/V^2' },
     departs,
   };
 }

@@ -155,7 +155,7 @@ describe('fitKerrCurve', () => {
     });
   });
 
-  it('widens every standard error by √((1+ρ)/(1−ρ)) for autocorrelated residuals (AR(1) noise, ρ = 0.7; Bence 1995)', () => {
+  it('widens the standard errors by about √((1+ρ)/(1−ρ)) for autocorrelated residuals (AR(1) noise, ρ = 0.7; Bence 1995; HAC estimate, Newey & West 1987)', () => {
     const white = seededNormal(8);
     const v = sweep(400, 1.15 * VPI_TRUE);
     let e = 0;
@@ -168,7 +168,12 @@ describe('fitKerrCurve', () => {
     const rho = fit.residualAutocorrelation;
     // lag-1 estimate of an AR(1) with 400 points: standard error ≈ √((1−φ²)/n) ≈ 0.036
     expect(Math.abs(rho - phi)).toBeLessThan(0.15);
-    expect(fit.errorInflation).toBeCloseTo(Math.sqrt((1 + rho) / (1 - rho)), 12);
+    // The fit's per-parameter HAC estimate tends to the AR(1) factor; a Bartlett-kernel estimate
+    // from 400 frames runs low by up to about a fifth (Andrews 1991, finite-sample bias), so the
+    // check is a band around the closed form, and the estimate must be well above 1.
+    const ar1 = Math.sqrt((1 + rho) / (1 - rho));
+    expect(fit.errorInflation).toBeGreaterThan(0.75 * ar1);
+    expect(fit.errorInflation).toBeLessThan(1.25 * ar1);
     expectWithin3Sigma(fit.kerrConstant, B_TRUE);
   });
 });

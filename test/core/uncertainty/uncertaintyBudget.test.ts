@@ -25,7 +25,7 @@ describe('kerrUncertaintyBudget', () => {
 
   it('keeps geometry out of V_π and marks the cell and logger terms as cancelling within one cell', () => {
     const v = budget.halfWaveVoltage;
-    expect(v.terms.map((t) => t.name)).toEqual(['statistical', 'sync', 'voltage-calibration']);
+    expect(v.terms.map((t) => t.name)).toEqual(['statistical', 'sync', 'ramp-consistency', 'voltage-calibration']);
     expect(v.relativeCombined).toBeCloseTo(Math.hypot(0.001, 0.005773503), 8);
     expect(budget.kerrConstant.relativeRunToRun).toBeCloseTo(0.002, 9);
   });
