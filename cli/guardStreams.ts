@@ -8,6 +8,7 @@
  *   (src/io/outputDir.ts abandonAllStaged) and exit with 128 + the signal number. A replace
  *   already in progress is synchronous and finishes first, so the earlier result or the new one
  *   is always in place.
+ *   A command that listens for the signal itself (watch) owns the shutdown instead.
  */
 import { writeSync } from 'node:fs';
 import { abandonAllStaged } from '../src/io/outputDir.js';
@@ -47,6 +48,9 @@ const SIGNALS: Array<[NodeJS.Signals, number]> = [['SIGINT', 2], ['SIGTERM', 15]
 export function installSignalCleanup(): void {
   for (const [signal, number] of SIGNALS) {
     process.on(signal, () => {
+      // A command that handles the signal itself (watch stops ffmpeg and finishes a recording)
+      // owns the shutdown and its own staged folders.
+      if (process.listenerCount(signal) > 1) return;
       abandonAllStaged();
       try {
         writeSync(2, `kerrtrace: stopped by ${signal}; nothing was replaced and partial output was removed\n`);
