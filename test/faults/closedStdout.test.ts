@@ -9,7 +9,7 @@ import { closeSync, existsSync, mkdtempSync, openSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { BIN, BUILT, FIXTURE_RESULTS, MEDIA, ROOT, completeComparisonLabel, completeRunLabel, expectOneLine, type CliRun } from './faultHelpers.js';
+import { BIN, FIXTURE_RESULTS, MEDIA, ROOT, completeComparisonLabel, completeRunLabel, expectOneLine, type CliRun } from './faultHelpers.js';
 
 const clipDir = join(MEDIA, 'sparks-halo', 'run');
 const work = mkdtempSync(join(tmpdir(), 'kt-stdout-'));
@@ -48,7 +48,7 @@ const quick: [string, string[]][] = [
   ['trace to stdout', ['trace', join(clipDir, 'clip.mp4'), '--roi', '90,75,40,40', '--quiet']],
 ];
 
-describe.skipIf(!BUILT)('closed or full standard output', () => {
+describe('closed or full standard output', () => {
   for (const [name, args] of quick) {
     it(`${name}: full and closed stdout give one line and exit 5`, async () => {
       expectOneLine(toDevFull(args), 5, FULL);

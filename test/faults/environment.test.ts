@@ -17,7 +17,7 @@ import { chmodSync, existsSync, mkdirSync, mkdtempSync, readdirSync, statSync, s
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { BUILT, FIXTURE_RESULTS, MEDIA, completeComparisonLabel, expectOneLine, kerrtrace, leftovers } from './faultHelpers.js';
+import { FIXTURE_RESULTS, MEDIA, completeComparisonLabel, expectOneLine, kerrtrace, leftovers } from './faultHelpers.js';
 
 const clipDir = join(MEDIA, 'sparks-halo', 'run');
 const analyzeArgs = ['analyze', join(clipDir, 'clip.mp4'), '--volts', join(clipDir, 'volts.csv'), '--length-mm', '45', '--gap-mm', '4.5', '--quiet', '--no-report', '--no-maps'];
@@ -52,7 +52,7 @@ afterAll(() => {
   for (const m of mounts.reverse()) spawnSync('umount', ['-l', m]);
 });
 
-describe.skipIf(!BUILT)('environment errors are one line with exit code 5', () => {
+describe('environment errors are one line with exit code 5', () => {
   it.skipIf(!canMount)('a full disk before the run: refused before decoding, nothing left behind', () => {
     const disk = join(work, 'full');
     expect(mount(disk, 64 * 1024)).toBe(true);

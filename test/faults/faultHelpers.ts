@@ -16,7 +16,12 @@ import { expect } from 'vitest';
 
 export const ROOT = join(__dirname, '..', '..');
 export const BIN = join(ROOT, 'bin', 'kerrtrace.js');
+/**
+ * True once the command line is compiled. The fault suites run the real CLI, so without dist/
+ * they fail with one line saying how to build it (never skip in silence).
+ */
 export const BUILT = existsSync(join(ROOT, 'dist', 'cli', 'main.js'));
+if (!BUILT) throw new Error('the fault tests run the compiled command line: run `npx tsc -p tsconfig.json` (npm test does it first)');
 export const MEDIA = join(ROOT, 'test-media');
 export const FIXTURE_RESULTS = join(ROOT, 'test', 'fixtures', 'results');
 
