@@ -836,6 +836,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     kerrConstant: fit.kerrConstant.value, kerrConstantStdErr: uncertainty.kerrConstant.combinedStdErr,
     halfWaveVoltageV: fit.halfWaveVoltage.value, halfWaveStdErrV: uncertainty.halfWaveVoltage.combinedStdErr,
     converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
+    ampVpiCorrelation: fit.ampVpiCorrelation, relStdErrB: fit.relStdErrB,
     residualRms: fit.intensityNoise, signalAmplitude: fit.amplitude.value, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
   });
   warnings.push(...gates.warnings);

@@ -121,6 +121,19 @@ describe('issue 12: honest numbers on simulated runs', () => {
     expect(tol.uncertainty!.halfWaveVoltage.terms.find((t) => t.name === 'open-level')!.relative).toBeCloseTo(term.relative / 2, 12);
   }, 90_000);
 
+  it('the first 2 s of a sweep (the drive reaches about 0.3 V_π): refused or marked not valid, never a valid number', async () => {
+    const start = { segments: [{ kind: 'hold', durationS: 0.5 }, { kind: 'ramp', toHalfWaveFraction: 0.3, durationS: 1.5 }] };
+    const { dir, truth } = await render('first2s', { ...(scenario(42, start, { sampleRateHz: 20, clockOffsetS: 0 }) as object), durationS: 2 });
+    let outcome: string;
+    try {
+      const { result } = await analyzeRun(options(dir, truth.roi), hooks);
+      outcome = result.validity?.valid === false ? 'not valid' : `valid B = ${result.kerrConstant.value} (truth ${truth.B})`;
+    } catch (e) {
+      outcome = `refused: ${(e as Error).message}`;
+    }
+    expect(outcome).toMatch(/^(not valid|refused)/);
+  }, 60_000);
+
   it('refuses a reference region on the beam (it would "correct" exposure with the signal)', async () => {
     const { dir, truth } = await render('refonbeam', scenario(38, triangle, { sampleRateHz: 10, clockOffsetS: 0 }));
     const r = truth.roi;
