@@ -28,12 +28,12 @@ export function parseTransfer(text: string): TransferName {
  * A length with an optional tolerance: "40", "40±0.1" or "40+-0.1" (mm). The tolerance is a ±
  * limit; the budget takes it as rectangular (docs/uncertainty.md).
  */
-export function parseWithTolerance(text: string, option: string, what: string): { value: number; tolerance?: number } {
+export function parseWithTolerance(text: string, option: string, what: string, unit = 'mm'): { value: number; tolerance?: number } {
   const m = /^\s*([^±+]+?)\s*(?:(?:±|\+-|\+\/-)\s*(.+))?\s*$/.exec(text);
   if (!m) throw invalid(`${what}, optionally with a tolerance (e.g. 4±0.05)`, option, text);
   const value = parseNumber(m[1]!, option, `${what}, optionally with a tolerance (e.g. 4±0.05)`);
   if (m[2] === undefined) return { value };
-  const tolerance = parseNumber(m[2], option, `a tolerance in mm after ± (e.g. 4±0.05)`);
+  const tolerance = parseNumber(m[2], option, `a tolerance in ${unit} after ± (e.g. 4±0.05)`);
   if (!(tolerance >= 0)) throw invalid('a tolerance of 0 or more after ±', option, text);
   return { value, tolerance };
 }
@@ -75,7 +75,11 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   if (c.offsetS !== undefined) o.offsetS = parseNumber(c.offsetS, '--offset-s', 'an offset in seconds');
   if (c.openWindow !== undefined) o.openWindowS = parseWindow(c.openWindow);
   if (c.openVideo !== undefined) o.openVideoPath = c.openVideo;
-  if (c.openLevel !== undefined) o.openLevel = parseNumber(c.openLevel, '--open-level', 'a positive open level in linear units');
+  if (c.openLevel !== undefined) {
+    const level = parseWithTolerance(c.openLevel, '--open-level', 'a positive open level in linear units', 'linear units');
+    o.openLevel = level.value;
+    if (level.tolerance !== undefined) o.openLevelTolerance = level.tolerance;
+  }
   if (c.transfer !== undefined) o.transfer = parseTransfer(c.transfer);
   if (c.cameraProfile !== undefined) o.cameraProfilePath = c.cameraProfile;
   if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
@@ -106,7 +110,7 @@ export function register(program: Command): void {
     .option('--offset-s <S>', 'video time minus log time of the same instant, s (default: found automatically)')
     .option('--open-window <START:END>', 'seconds of this video with the analyser parallel and no field')
     .option('--open-video <file>', 'a clip with the analyser parallel and no field, same camera settings')
-    .option('--open-level <X>', 'open level in the linear units of trace.csv')
+    .option('--open-level <X>', 'open level in the linear units of trace.csv, optionally ±tolerance (e.g. 0.42±0.01)')
     .option('--effective-length-mm <LE>', 'effective length including fringe fields, mm (default: --length-mm)')
     .option('--polariser-angle-deg <A>', 'polariser angle to the field, degrees (default 45)')
     .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
@@ -116,7 +120,7 @@ export function register(program: Command): void {
     .option('--label <text>', 'a name for this run in reports and comparisons')
     .option('--wavelength-nm <nm>', 'wavelength of the light, nm (recorded; compare warns when runs differ)')
     .option('--channels <rgb>', 'also fit B in the red, green and blue channels separately (white light)')
-    .option('--no-robust', 'plain least squares instead of Huber weighting')
+    .option('--no-robust', 'least squares without Huber down-weighting (the voltage-uncertainty weights stay)')
     .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')
     .option('--no-maps', 'skip the static/modulated maps and scatter figures')
     .option('--no-report', 'skip report.html, plots and summary.md')

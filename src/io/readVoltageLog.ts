@@ -7,7 +7,9 @@
  * (older Windows loggers write "°C" that way), with a warning.
  *
  * Throws KerrError FILE_NOT_FOUND (with a hint) when the path does not exist, BAD_ARGUMENT when it
- * is a folder, and whatever `parseVoltageLog` throws (BAD_CSV) for bad content.
+ * is a folder, BAD_CSV when the file is binary (NUL bytes or more than 5 % control codes, checked
+ * before parsing so the message names no escaped junk), and whatever `parseVoltageLog` throws
+ * (BAD_CSV) for bad content.
  *
  * @example const log = await readVoltageLog('run1/volts.csv'); log.voltageV[0] // V
  */
@@ -41,10 +43,39 @@ export async function readVoltageLog(path: string): Promise<VoltageLog> {
       hint: 'check that the file exists and that you may read it',
     });
   }
+  const binary = binaryContent(bytes);
+  if (binary !== null) {
+    throw new KerrError('BAD_CSV', `${path} is not a text CSV file: ${binary}`, {
+      path,
+      hint: 'give the log exported as CSV text, with a header such as time_s,voltage_kV',
+    });
+  }
   const { text, warning } = decodeText(bytes);
   const log = parseVoltageLog(text, path);
   if (warning !== null) log.warnings.unshift(`${path}: ${warning}`);
   return log;
+}
+
+/** Largest share of control bytes (other than tab, CR, LF, FF) a text file may hold. */
+const MAX_CONTROL_SHARE = 0.05;
+
+/**
+ * Why the bytes look binary, or null for text: a NUL byte, or more than MAX_CONTROL_SHARE of the
+ * first 64 KiB being control codes. UTF-16 with a byte-order mark (NULs between ASCII letters) is
+ * text.
+ */
+function binaryContent(bytes: Buffer): string | null {
+  if (bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff))) return null;
+  const head = bytes.subarray(0, 65536);
+  let nul = 0;
+  let control = 0;
+  for (const b of head) {
+    if (b === 0) nul++;
+    if ((b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) || b === 0x7f) control++;
+  }
+  if (nul > 0) return `it holds NUL bytes (${nul} in the first ${head.length}), so it is binary (a spreadsheet, archive or logger file?)`;
+  if (control > MAX_CONTROL_SHARE * head.length) return `${Math.round((100 * control) / head.length)} % of its first ${head.length} bytes are control codes, so it is binary (a spreadsheet, archive or logger file?)`;
+  return null;
 }
 
 function decodeText(bytes: Buffer): { text: string; warning: string | null } {

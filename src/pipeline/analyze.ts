@@ -68,6 +68,8 @@ export interface AnalyzeOptions {
   openWindowS?: [number, number];
   openVideoPath?: string;
   openLevel?: number;
+  /** ± limit of a given open level (same units; rectangular, u = T/√3); absent: not given. */
+  openLevelTolerance?: number;
   transfer?: TransferName;
   electrodeHeightMm?: number;
   label?: string;
@@ -164,6 +166,7 @@ export function checkAnalyzeOptions(o: AnalyzeOptions): void {
   if (o.openVideoPath !== undefined && resolve(o.openVideoPath) === resolve(o.videoPath)) throw new KerrError('BAD_ARGUMENT', `the open video ${o.openVideoPath} is the run's own clip`, { path: '--open-video', hint: 'Give a separate clip recorded with the analyser parallel and no field, or --open-window START:END for a part of this clip' });
   if (o.openVideoPath !== undefined && !existsSync(o.openVideoPath)) throw new KerrError('FILE_NOT_FOUND', missingPathText(o.openVideoPath, `${o.openVideoPath} does not exist`), { path: '--open-video', hint: 'Check the path' });
   if (o.openLevel !== undefined && !(o.openLevel > 0)) throw invalid('a positive open level in linear units', '--open-level', o.openLevel);
+  if (o.openLevelTolerance !== undefined && !(o.openLevelTolerance >= 0 && o.openLevelTolerance < (o.openLevel ?? Infinity))) throw invalid('a tolerance from 0 to below the open level', '--open-level', o.openLevelTolerance);
   if (o.cameraProfilePath !== undefined) {
     if (o.transfer !== undefined) throw new KerrError('BAD_ARGUMENT', 'give --transfer or --camera-profile, not both', { hint: 'A camera profile replaces the transfer curve' });
     if (!existsSync(o.cameraProfilePath)) throw new KerrError('FILE_NOT_FOUND', `${o.cameraProfilePath} does not exist`, { path: '--camera-profile', hint: 'Check the path of the camera profile' });
@@ -495,6 +498,15 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
 
   // open window frames
   let openLevel: number | undefined = o.openLevel;
+  // Standard uncertainty of the open level: a given ±T as a rectangular limit (T/√3); a measured
+  // one as the standard error of a median, √(π/2)·s/√n (normal frames).
+  let openLevelStdErr: number | undefined = o.openLevelTolerance !== undefined ? o.openLevelTolerance / Math.sqrt(3) : undefined;
+  let openLevelNote = o.openLevelTolerance !== undefined ? `--open-level ±${o.openLevelTolerance} (rectangular, /√3)` : 'no tolerance given with --open-level (X±T)';
+  const medianStdErr = (vals: number[]): number => {
+    const mean = vals.reduce((s, x) => s + x, 0) / vals.length;
+    const sd = Math.sqrt(vals.reduce((s, x) => s + (x - mean) ** 2, 0) / Math.max(1, vals.length - 1));
+    return Math.sqrt(Math.PI / 2) * sd / Math.sqrt(vals.length);
+  };
   if (o.openWindowS) {
     const [a, b] = o.openWindowS;
     const vals: number[] = [];
@@ -509,6 +521,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     }
     if (vals.length < 3) throw new KerrError('BAD_ARGUMENT', `the open window ${a}–${b} s holds only ${vals.length} usable frame${vals.length === 1 ? '' : 's'}, at least 3 are needed (the video runs ${times[0]!.toFixed(2)}–${times[nFrames - 1]!.toFixed(2)} s)`, { path: '--open-window', hint: 'Give START:END in seconds of this video where the analyser was parallel' });
     openLevel = median(vals);
+    openLevelStdErr = medianStdErr(vals);
+    openLevelNote = `median of ${vals.length} open-window frames`;
   }
   if (o.openVideoPath) {
     const openProbe = await probeMedia(o.openVideoPath);
@@ -531,6 +545,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
       vals.push(openPass.regions[0]!.luma[f]! - bg);
     }
     openLevel = median(vals);
+    openLevelStdErr = medianStdErr(vals);
+    openLevelNote = `median of ${vals.length} open-video frames`;
   }
 
   if (openLevel !== undefined) {
@@ -575,7 +591,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   }
 
   return {
-    o, hooks, info, decoding, log, grid, times, nFrames, intensity, gain, voltage, query, vAbsMax, openLevel,
+    o, hooks, info, decoding, log, grid, times, nFrames, intensity, gain, voltage, query, vAbsMax, openLevel, openLevelStdErr, openLevelNote,
     offsetS, offsetStdErrS, sync, vpiHint, beamRect, beamAuto, geom, haveSurround, voltageAt,
     excluded: excluded.slice(), events: events.slice(), warnings: warnings.slice(),
     ...(channelIntensity ? { channelIntensity } : {}),
@@ -603,6 +619,9 @@ export interface MeasuredRun {
   query: Float64Array;
   vAbsMax: number;
   openLevel: number | undefined;
+  /** Standard uncertainty of the open level (undefined: not given) and how it was obtained. */
+  openLevelStdErr: number | undefined;
+  openLevelNote: string;
   offsetS: number;
   offsetStdErrS: number | undefined;
   sync: RunResult['sync'];
@@ -808,6 +827,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     gapM, gapToleranceM: (o.gapToleranceMm ?? 0) * MM,
     lengthM: effectiveLengthM, lengthToleranceM: (o.lengthToleranceMm ?? 0) * MM,
     ...(cameraResponseRel !== undefined ? { cameraResponseRel } : {}),
+    ...(openLevel !== undefined ? { openLevel: { stdErr: m.openLevelStdErr, note: m.openLevelNote } } : {}),
     frames: { voltageV: voltage, intensity, include: Uint8Array.from(excluded, (e) => (e ? 0 : 1)), timesS: times },
   });
   const noiseOfFrames = frameNoise(Float64Array.from(useIdx, (f) => intensity[f]!));
@@ -816,6 +836,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     kerrConstant: fit.kerrConstant.value, kerrConstantStdErr: uncertainty.kerrConstant.combinedStdErr,
     halfWaveVoltageV: fit.halfWaveVoltage.value, halfWaveStdErrV: uncertainty.halfWaveVoltage.combinedStdErr,
     converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
+    ampVpiCorrelation: fit.ampVpiCorrelation, relStdErrB: fit.relStdErrB,
     residualRms: fit.intensityNoise, signalAmplitude: fit.amplitude.value, frameNoise: noiseOfFrames, bitsPerPixel, syncAmbiguous: sync.ambiguous, plausibleRangeMPerV2: liquidRange,
   });
   warnings.push(...gates.warnings);

@@ -26,6 +26,11 @@ export interface RunUncertaintyInput {
   /** Length the fit used (effective length when given) and its tolerance. */
   lengthM: number;
   lengthToleranceM: number;
+  /**
+   * The open level the amplitude was held at (fitInput.openLevel) and its standard uncertainty
+   * (undefined: not given, the term is 0); omitted when no open level was used.
+   */
+  openLevel?: { stdErr: number | undefined; note: string };
   /** Relative standard uncertainty the camera response puts on B, when known. */
   cameraResponseRel?: number;
   /** Every frame (time order) for the rising/falling comparison; omitted: no ramp term. */
@@ -81,12 +86,39 @@ export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: Uncertai
     syncRel = Number.isFinite(plus) && Number.isFinite(minus) ? Math.abs(plus - minus) / (2 * vpi) : NaN;
     syncNote = `V_π refitted at the sync offset ± ${(i.offsetStdErrS * 1000).toFixed(1)} ms`;
   }
+  let openRel = 0;
+  let openNote: string | undefined;
+  const level = i.fitInput.openLevel;
+  if (i.openLevel && level !== undefined) {
+    const u = i.openLevel.stdErr;
+    if (u !== undefined && u > 0) {
+      // V_π refitted with the amplitude held at the open level ± u: half the spread
+      const v = i.voltageAtOffset(i.offsetS);
+      const keep: number[] = [];
+      for (let k = 0; k < v.length; k++) if (Number.isFinite(v[k]!)) keep.push(k);
+      const pick = (x: Float64Array | undefined) => (x ? Float64Array.from(keep, (k) => x[k]!) : undefined);
+      const sigma = pick(i.fitInput.voltageSigmaV);
+      const at = (sign: number): number => (keep.length < 10 ? NaN : fitKerrCurve({
+        ...i.fitInput, voltageV: pick(v)!, intensity: pick(i.fitInput.intensity)!,
+        ...(sigma ? { voltageSigmaV: sigma } : {}),
+        openLevel: level + sign * u, halfWaveGuessesV: [vpi], onlyGivenStarts: true,
+      }).halfWaveVoltage.value);
+      const plus = at(1);
+      const minus = level - u > 0 ? at(-1) : vpi;
+      const span = level - u > 0 ? 2 : 1;
+      openRel = Number.isFinite(plus) && Number.isFinite(minus) ? Math.abs(plus - minus) / (span * vpi) : NaN;
+      openNote = `V_π refitted with the open level ± ${u.toPrecision(2)} (${i.openLevel.note})`;
+    } else {
+      openNote = `open level uncertainty not given (${i.openLevel.note})`;
+    }
+  }
   const voltageCalibrationRel = rectangularRelative(i.voltsAccuracyPercent, 100);
   const ramp = rampConsistency(i);
   return kerrUncertaintyBudget({
     kerrConstant: i.fit.kerrConstant.value, halfWaveVoltageV: vpi, statisticalRel,
     syncRel, syncNote, rampRel: ramp.rel, rampNote: ramp.note,
     voltageCalibrationRel,
+    ...(openNote !== undefined ? { openLevelRel: openRel, openLevelNote: openNote } : {}),
     voltageCalibrationNote: i.voltsAccuracyPercent > 0 ? `logger accuracy ±${i.voltsAccuracyPercent} % of reading (rectangular, /√3)` : 'logger accuracy given as 0',
     gapRel: rectangularRelative(i.gapToleranceM, i.gapM),
     gapNote: i.gapToleranceM > 0 ? `gap ±${(i.gapToleranceM * 1000).toPrecision(3)} mm (rectangular, /√3)` : 'no gap tolerance given (--gap-mm D±T)',

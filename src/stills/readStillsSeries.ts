@@ -42,6 +42,7 @@ import { access, readFile } from 'node:fs/promises';
 import { basename, dirname, extname, join, resolve } from 'node:path';
 import sharp from 'sharp';
 import exifr from 'exifr';
+import { SYNC_SETTINGS } from '../core/sync/findSyncOffset.js';
 import { KerrError } from '../errors.js';
 import type { Rect, RegionSample, ResponseTable, TransferName } from '../media/types.js';
 import type { RunWarning } from '../result/schema.js';
@@ -294,6 +295,19 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
         hint: 'Name the photos with their voltage (e.g. step07_12.5kV.jpg, 0450V.png, 3,2kV.tif; see docs/stills.md) or give a CSV with --volts',
       });
     }
+  }
+
+  // Unit sanity, as for a video's log (core/sync/findSyncOffset: a liquid cell needs kilovolts):
+  // photo voltages that are not all zero but never exceed 50 V are kilovolts read as volts.
+  let maxAbsV = 0;
+  for (const v of voltages) maxAbsV = Math.max(maxAbsV, Math.abs(v));
+  if (maxAbsV > 0 && maxAbsV < SYNC_SETTINGS.minDriveV) {
+    throw new KerrError('BAD_ARGUMENT', `the photo voltages never exceed ${maxAbsV} V, too little to modulate a Kerr cell: they look like kilovolts read as volts`, {
+      path: voltageSource === 'file-names' ? photos[0]! : opts.voltsPath ?? '--volts',
+      hint: voltageSource === 'file-names'
+        ? 'Write the unit in the file names, e.g. step07_4.5kV.jpg'
+        : 'Put the unit in the voltage column\'s header, e.g. voltage_kV or U [kV]',
+    });
   }
 
   // The open photo: cheap checks now, pixels at the end.

@@ -85,7 +85,7 @@ const CASES: BadCase[] = [
       writeFileSync(p, Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), bytes]));
       return [CLIP, p];
     },
-    pattern: /logger\.csv/,
+    pattern: /logger\.csv is not a text CSV file/,
     exitCode: 2,
   },
 ];

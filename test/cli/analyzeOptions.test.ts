@@ -191,19 +191,22 @@ describe('analyze options on test-media/cfr-ramp', () => {
     expect(result.channels.note).toMatch(/band/);
   });
 
-  it('--no-robust fits plain least squares: the residuals of the used frames sum to zero (normal equation of the free floor)', () => {
+  it('--no-robust switches off only the Huber down-weighting: the σ_V weights stay, so the plain residual sum is not zero but B still covers the truth', () => {
     const base = ok('base');
     const plain = ok('plain');
     expect(plain.result.fit.robust).toBe('none');
-    // For an unweighted least-squares fit with a constant term, ∂S/∂floor = −2·Σr = 0 at the
-    // minimum. The Huber fit weights residuals, so its plain sum is not zero.
+    // Each frame keeps its variance var_i = s0² + (dI/dV·σ_V)² (docs/analyze.md), so the floor's
+    // normal equation is Σ r_i/var_i = 0, not Σ r_i = 0; the exact weighted condition is checked
+    // on a sweep with known σ_V in test/core/fit/fitKerrCurve.test.ts (var_i is not in trace.csv).
+    // Measured on this clip: plain Σr/(rms·√n) = 0.53 with the weights (it was < 0.01 unweighted).
     const sumRatio = (dir: string): number => {
       const res = readTraceCsv(dir).filter((r) => r.used).map((r) => r.residual!);
       const rms = Math.sqrt(res.reduce((s, x) => s + x * x, 0) / res.length);
       return res.reduce((s, x) => s + x, 0) / (rms * Math.sqrt(res.length));
     };
-    expect(Math.abs(sumRatio(plain.dir))).toBeLessThan(0.01);
+    expect(Math.abs(sumRatio(plain.dir))).toBeGreaterThan(0.05);
     expect(Math.abs(sumRatio(base.dir))).toBeGreaterThan(0.2);
+    expect(plain.result.kerrConstant.value).not.toBe(base.result.kerrConstant.value);
     expectCovers(plain.result.kerrConstant, TRUTH.kerrConstantMPerV2);
   });
 

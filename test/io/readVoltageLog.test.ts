@@ -85,6 +85,20 @@ describe('readVoltageLog edge cases', () => {
     expect(log.warnings[0]).toContain('Latin-1');
   });
 
+  it('a binary file (zip signature, then bytes of every value) is refused in one short plain line: not a text CSV', async () => {
+    const path = join(scratch, 'logger.csv');
+    let x = 12345;
+    const bytes = Buffer.from(Array.from({ length: 4096 }, () => { x = (x * 1103515245 + 12345) % 2147483648; return x % 256; }));
+    writeFileSync(path, Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), bytes]));
+    const err = await failure(path);
+    expect(err.code).toBe('BAD_CSV');
+    const line = err.oneLine();
+    expect(line).toMatch(/logger\.csv is not a text CSV file/);
+    expect(line).toMatch(/time_s,voltage_kV/);
+    expect(line.length).toBeLessThan(300);
+    expect(line).not.toMatch(/\\u|\\x|[\u0000-\u0008\u000e-\u001f]/); // no escaped or raw control bytes
+  });
+
   it('names the file path in parse errors', async () => {
     const path = join(scratch, 'bad.csv');
     writeFileSync(path, 'time_s,voltage_kV\n0,1\n1,oops\n');

@@ -102,6 +102,38 @@ describe('issue 12: honest numbers on simulated runs', () => {
     expect(() => checkAnalyzeOptions({ ...options(dir, truth.roi), openVideoPath: join(dir, 'clip.mp4') })).toThrow(/run's own clip/);
   }, 60_000);
 
+  it('a given open level carries its own uncertainty into σ(B) ("open-level" term); without a tolerance the term is 0 and says so', async () => {
+    const { dir, truth } = await render('opentol', scenario(41, triangle, { sampleRateHz: 20, clockOffsetS: 0 }));
+    const free = (await analyzeRun({ ...options(dir, truth.roi), offsetS: 0 }, hooks)).result;
+    const level = free.model.amplitude.value; // at 45° the open level equals I_amp
+    const bare = (await analyzeRun({ ...options(dir, truth.roi), offsetS: 0, openLevel: level }, hooks)).result;
+    const tol = (await analyzeRun({ ...options(dir, truth.roi), offsetS: 0, openLevel: level, openLevelTolerance: 0.05 * level }, hooks)).result;
+    expect(free.uncertainty!.kerrConstant.terms.some((t) => t.name === 'open-level')).toBe(false);
+    const bareTerm = bare.uncertainty!.kerrConstant.terms.find((t) => t.name === 'open-level')!;
+    expect(bareTerm.relative).toBe(0);
+    expect(bareTerm.note).toMatch(/not given/);
+    const term = tol.uncertainty!.kerrConstant.terms.find((t) => t.name === 'open-level')!;
+    // ±5 % rectangular = 2.9 % standard on the amplitude; near V_π the amplitude and V_π trade off,
+    // so B moves by a sizeable share of that (measured: see the report)
+    expect(term.relative).toBeGreaterThan(0.001);
+    expect(term.sensitivity).toBe(-2);
+    expect(tol.kerrConstant.stdErr!).toBeGreaterThan(bare.kerrConstant.stdErr!);
+    expect(tol.uncertainty!.halfWaveVoltage.terms.find((t) => t.name === 'open-level')!.relative).toBeCloseTo(term.relative / 2, 12);
+  }, 90_000);
+
+  it('the first 2 s of a sweep (the drive reaches about 0.3 V_π): refused or marked not valid, never a valid number', async () => {
+    const start = { segments: [{ kind: 'hold', durationS: 0.5 }, { kind: 'ramp', toHalfWaveFraction: 0.3, durationS: 1.5 }] };
+    const { dir, truth } = await render('first2s', { ...(scenario(42, start, { sampleRateHz: 20, clockOffsetS: 0 }) as object), durationS: 2 });
+    let outcome: string;
+    try {
+      const { result } = await analyzeRun(options(dir, truth.roi), hooks);
+      outcome = result.validity?.valid === false ? 'not valid' : `valid B = ${result.kerrConstant.value} (truth ${truth.B})`;
+    } catch (e) {
+      outcome = `refused: ${(e as Error).message}`;
+    }
+    expect(outcome).toMatch(/^(not valid|refused)/);
+  }, 60_000);
+
   it('refuses a reference region on the beam (it would "correct" exposure with the signal)', async () => {
     const { dir, truth } = await render('refonbeam', scenario(38, triangle, { sampleRateHz: 10, clockOffsetS: 0 }));
     const r = truth.roi;

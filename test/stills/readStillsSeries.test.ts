@@ -30,6 +30,23 @@ async function errorOf(p: Promise<unknown>): Promise<{ code: string; line: strin
 }
 
 describe('readStillsSeries', () => {
+  it('photo voltages in kV read as V (4.5, 9.0) are refused in one line that says kilovolts and how to write the unit (a liquid cell needs kilovolts; the same 50 V floor as a video log)', async () => {
+    const dir = folder();
+    for (const [k, v] of ['0', '4.5', '9.0'].entries()) await writePng8(join(dir, `s${k}_${v}V.png`), { beam: 0.1 + 0.1 * k });
+    const byName = await errorOf(readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: DARK_ROI }));
+    expect(byName.code).toBe('BAD_ARGUMENT');
+    expect(byName.line).toMatch(/never exceed 9 V.*kilovolts read as volts/);
+    expect(byName.line).toMatch(/4\.5kV/);
+    expect(byName.line).not.toMatch(/\n/);
+    writeFileSync(join(dir, 'map.csv'), 'file,voltage\ns0_0V.png,0\ns1_4.5V.png,4.5\ns2_9.0V.png,9.0\n');
+    const byMap = await errorOf(readStillsSeries(dir, { voltsPath: join(dir, 'map.csv'), roi: BEAM_ROI, darkRoi: DARK_ROI }));
+    expect(byMap.line).toMatch(/kilovolts read as volts.*voltage_kV/);
+    // the same voltages with their unit pass the check
+    writeFileSync(join(dir, 'map.csv'), 'file,voltage_kV\ns0_0V.png,0\ns1_4.5V.png,4.5\ns2_9.0V.png,9.0\n');
+    const ok = await readStillsSeries(dir, { voltsPath: join(dir, 'map.csv'), roi: BEAM_ROI, darkRoi: DARK_ROI });
+    expect(Array.from(ok.voltageV)).toEqual([0, 4500, 9000]);
+  });
+
   it('EXIF normalisation: the same scene at different exposure time, ISO and f-number gives the same intensity within 2% (exposure ∝ t·ISO/N², common practice)', async () => {
     const dir = folder();
     const shots = [

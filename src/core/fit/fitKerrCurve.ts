@@ -11,7 +11,8 @@
  * Several V_π starts (log-spaced, plus any caller hint) keep the fit off wrong branches of sin²;
  * a start that hits its iteration limit is continued from where it stopped, every start is kept
  * in `startResults`, and the best by residual (see betterStart) is refined with Huber weights
- * (iteratively reweighted). When the
+ * (iteratively reweighted; with `robust: false` the effective-variance weights are kept and only
+ * the Huber down-weighting is off). When the
  * amplitude is known from an open measurement it is held fixed, which removes the amplitude/V_π
  * trade-off of low sweeps. Identifiability is judged from the fit itself: the amplitude–V_π
  * correlation and B's relative standard error. Standard errors are widened for residuals
@@ -268,17 +269,23 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   // intensity errors through the curve's slope; Orear, Am. J. Phys. 50, 912 (1982)).
   const sigmaV = input.voltageSigmaV;
   if (sigmaV && sigmaV.length !== n) throw new KerrError('INTERNAL', 'voltage uncertainty series differs in length');
-  const slope2 = new Float64Array(n);
+  let slope2: Float64Array = new Float64Array(n);
   const p0 = Float64Array.from(best.start);
   const resid0 = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const v = voltageV[i]!;
-    const h = Math.max(1e-6 * vMax, 1e-3 * Math.abs(v));
-    const dIdV = (model.value(p0, v + h) - model.value(p0, v - h)) / (2 * h);
-    const sv = sigmaV ? sigmaV[i]! : 0;
-    slope2[i] = dIdV * dIdV * sv * sv;
-    resid0[i] = intensity[i]! - model.value(p0, v);
-  }
+  /** (dI/dV_i·σ_V,i)² at parameters q (central difference). */
+  const voltageTerm = (q: Float64Array): Float64Array => {
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const v = voltageV[i]!;
+      const h = Math.max(1e-6 * vMax, 1e-3 * Math.abs(v));
+      const dIdV = (model.value(q, v + h) - model.value(q, v - h)) / (2 * h);
+      const sv = sigmaV ? sigmaV[i]! : 0;
+      out[i] = dIdV * dIdV * sv * sv;
+    }
+    return out;
+  };
+  slope2 = voltageTerm(p0);
+  for (let i = 0; i < n; i++) resid0[i] = intensity[i]! - model.value(p0, voltageV[i]!);
   const s0sq = intensityVariance(resid0, slope2);
   const baseWeights = new Float64Array(n);
   for (let i = 0; i < n; i++) baseWeights[i] = s0sq / (s0sq + slope2[i]!);
@@ -292,6 +299,20 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
       final = robust;
       weights = robust.weights;
       outliers = robust.outliers;
+    }
+  } else {
+    // Plain least squares still weights each frame by 1/var_i (the voltage term stays in the
+    // variance); only the Huber down-weighting is switched off.
+    // The slope depends on the parameters, so the weights are refreshed at each new solution
+    // (a few rounds, as in Orear's iteration) and the variances below are taken at the final one.
+    if (sigmaV) {
+      for (let round = 0; round < 3; round++) {
+        const weighted = levenbergMarquardt(model, voltageV, intensity, Array.from(final.params), { lower, upper, maxIterations: 200, weights: baseWeights });
+        if (!Number.isFinite(weighted.rss)) break;
+        final = weighted;
+        slope2 = voltageTerm(Float64Array.from(final.params));
+        for (let i = 0; i < n; i++) baseWeights[i] = s0sq / (s0sq + slope2[i]!);
+      }
     }
   }
 

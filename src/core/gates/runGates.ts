@@ -8,6 +8,10 @@
  * - fit-not-converged: the fit stopped without converging (after refining starts that ran out of
  *   iterations).
  * - not-identifiable: the sweep does not separate brightness from V_π (fit's own test).
+ * - weak-reach: with the amplitude fitted (no open level), amplitude and V_π are correlated beyond
+ *   WEAK_REACH_CORRELATION and B's relative error exceeds WEAK_REACH_REL_ERROR: the sweep shows
+ *   only the foot of the curve (a clip cut to the start of a sweep gave B 15× too large with
+ *   correlation 0.975 and 17 % error while passing the fit's own, looser test).
  * - residual-excess: the fit's robust residual scale (median-based, so a few frames at a step or a
  *   spark do not count) exceeds RESIDUAL_EXCESS_LIMIT × the frame-to-frame noise (frameNoise) — the model does not describe the data: a log from another recording, a
  *   wrong sync, a wrong branch. Compression-correlated residuals stay well below this limit.
@@ -25,6 +29,8 @@ import type { RunGateFailure, RunWarning } from '../../result/schema.js';
 export const RESIDUAL_EXCESS_LIMIT = 4;
 export const STARVED_BITS_PER_PIXEL = 0.025;
 export const RESIDUAL_SIGNAL_FRACTION = 0.02;
+export const WEAK_REACH_CORRELATION = 0.95;
+export const WEAK_REACH_REL_ERROR = 0.1;
 
 export interface GateInput {
   kerrConstant: number;
@@ -35,6 +41,10 @@ export interface GateInput {
   fitReason: string;
   identifiable: boolean;
   maxVoltageOverHalfWave: number;
+  /** Fit correlation of amplitude and V_π (0 when the amplitude was held at an open level). */
+  ampVpiCorrelation?: number;
+  /** Relative standard error of B from the fit (statistical). */
+  relStdErrB?: number;
   /** Robust scale of the fit's residuals (same units as the intensity). */
   residualRms: number;
   /** Fitted modulation amplitude (same units), the size of the signal. */
@@ -56,6 +66,9 @@ export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: 
   }
   if (!g.converged) fail('fit-not-converged', `the fit stopped without converging (${g.fitReason})`);
   if (!g.identifiable) fail('not-identifiable', 'the sweep does not reach far enough to separate brightness from the half-wave voltage (which is therefore unknown); record an open level or sweep higher if the cell allows it');
+  if (g.identifiable && g.ampVpiCorrelation !== undefined && g.relStdErrB !== undefined && Math.abs(g.ampVpiCorrelation) > WEAK_REACH_CORRELATION && g.relStdErrB > WEAK_REACH_REL_ERROR) {
+    fail('weak-reach', `the sweep shows only the foot of the curve: brightness and half-wave voltage trade off (correlation ${g.ampVpiCorrelation.toFixed(3)}, B uncertain by ${(g.relStdErrB * 100).toFixed(0)} %), so the half-wave voltage is not measured; record an open level (--open-window, --open-video or --open-level) or sweep higher if the cell allows it`);
+  }
   if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
   }

@@ -7,12 +7,14 @@
  * near-normal result).
  *
  * Model: B = d²/(2·L_eff·V_π²), V_π measured in the logger's volts. So
- *   u_r(V_π)² = u_r,stat² + u_r,sync² + u_r,ramp² + u_r,V²     (+ (½·u_r,cam)² when a camera term is given)
- *   u_r(B)²   = (2·u_r,stat)² + (2·u_r,sync)² + (2·u_r,ramp)² + (2·u_r,V)² + (2·u_r(d))² + u_r(L)² + u_r,cam²
+ *   u_r(V_π)² = u_r,stat² + u_r,sync² + u_r,ramp² + u_r,open² + u_r,V²     (+ (½·u_r,cam)² when a camera term is given)
+ *   u_r(B)²   = (2·u_r,stat)² + (2·u_r,sync)² + (2·u_r,ramp)² + (2·u_r,open)² + (2·u_r,V)² + (2·u_r(d))² + u_r(L)² + u_r,cam²
  * where u_r,stat is V_π's statistical relative error (correlated residuals accounted for),
  * u_r,sync the change of V_π when the sync offset moves by its standard uncertainty,
  * u_r,ramp the systematic that rising and falling ramps show by disagreeing beyond their
  * statistics (a Type B estimate from varied conditions, GUM §4.3; 0 when they agree),
+ * u_r,open the change of V_π when a given open level (the amplitude held fixed) moves by its
+ * standard uncertainty (present only when an open level was used),
  * u_r,V the voltage calibration (a logger reading wrong by a factor scales V_π by that factor),
  * u_r(d), u_r(L) the gap and length tolerances, and u_r,cam the camera-response term on B (from
  * the response check of the camera work, when it ran).
@@ -25,7 +27,7 @@
  *   syncRel: 0.0005, voltageCalibrationRel: 0.00577, gapRel: 0.0072, lengthRel: 0.0014 })
  *   .kerrConstant.relativeCombined ≈ 0.0186
  */
-export type UncertaintyTermName = 'statistical' | 'sync' | 'ramp-consistency' | 'voltage-calibration' | 'gap' | 'length' | 'camera-response';
+export type UncertaintyTermName = 'statistical' | 'sync' | 'ramp-consistency' | 'open-level' | 'voltage-calibration' | 'gap' | 'length' | 'camera-response';
 
 export interface UncertaintyTerm {
   name: UncertaintyTermName;
@@ -72,6 +74,13 @@ export interface BudgetInput {
    */
   rampRel?: number;
   rampNote?: string;
+  /**
+   * Relative change of V_π for a 1σ change of the open level the amplitude was held at; with
+   * `openLevelNote` the term is listed (0 when the open level's uncertainty is not given), without
+   * it (no open level used) it is left out.
+   */
+  openLevelRel?: number;
+  openLevelNote?: string;
   /** Relative standard uncertainty of the logger's voltage reading. */
   voltageCalibrationRel: number;
   voltageCalibrationNote?: string;
@@ -118,10 +127,12 @@ export function kerrUncertaintyBudget(i: BudgetInput): { kerrConstant: Uncertain
   const camNote = i.cameraResponseNote ?? 'camera response check';
   const rampNote = i.rampNote ?? 'rising and falling ramps not compared';
   const hasCam = i.cameraResponseRel !== undefined;
+  const hasOpen = i.openLevelNote !== undefined;
   const vpiTerms = [
     term('statistical', i.statisticalRel, 1, false, statNote),
     term('sync', i.syncRel, 1, false, syncNote),
     term('ramp-consistency', clean(i.rampRel), 1, false, rampNote),
+    ...(hasOpen ? [term('open-level', clean(i.openLevelRel), 1, false, i.openLevelNote!)] : []),
     term('voltage-calibration', i.voltageCalibrationRel, 1, true, vNote),
     ...(hasCam ? [term('camera-response', clean(i.cameraResponseRel) / 2, 1, false, camNote)] : []),
   ];
@@ -129,6 +140,7 @@ export function kerrUncertaintyBudget(i: BudgetInput): { kerrConstant: Uncertain
     term('statistical', i.statisticalRel, -2, false, statNote),
     term('sync', i.syncRel, -2, false, syncNote),
     term('ramp-consistency', clean(i.rampRel), -2, false, rampNote),
+    ...(hasOpen ? [term('open-level', clean(i.openLevelRel), -2, false, i.openLevelNote!)] : []),
     term('voltage-calibration', i.voltageCalibrationRel, -2, true, vNote),
     term('gap', i.gapRel, 2, true, gNote),
     term('length', i.lengthRel, -1, true, lNote),

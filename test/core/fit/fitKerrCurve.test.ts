@@ -135,6 +135,27 @@ describe('fitKerrCurve', () => {
       for (const i of steep) expect(Math.abs(fit.standardizedResiduals[i]!)).toBeLessThan(Math.abs(intensity[i]! - fit.predict(logged[i]!)) / s0);
     });
 
+    it('robust: false keeps the σ_V weights: the weighted normal equation of the free floor, Σ r_i/var_i = 0, holds (and the plain sum does not)', () => {
+      const { logged, intensity, sigmaV } = noisyVoltages(33);
+      const fit = fitKerrCurve({ voltageV: logged, intensity, voltageSigmaV: sigmaV, effectiveLengthM: L_M, gapM: D_M, polariserAngleDeg: 45, robust: false });
+      // ∂/∂floor of Σ r_i²/var_i is −2·Σ r_i/var_i = 0 at the minimum (∂I/∂floor = 1). The code's
+      // var_i is recovered from its standardised residuals: var_i = (r_i/z_i)².
+      let sumW = 0, normW = 0, sumPlain = 0, sq = 0;
+      for (let i = 0; i < logged.length; i++) {
+        const r = intensity[i]! - fit.predict(logged[i]!);
+        const z = fit.standardizedResiduals[i]!;
+        const variance = (r / z) ** 2;
+        sumW += r / variance;
+        normW += 1 / variance;
+        sumPlain += r;
+        sq += r * r;
+      }
+      const weightedRatio = sumW / Math.sqrt(normW); // in units of one standardised residual
+      const plainRatio = sumPlain / Math.sqrt(sq);
+      expect(Math.abs(weightedRatio)).toBeLessThan(0.01);
+      expect(Math.abs(plainRatio)).toBeGreaterThan(0.05);
+    });
+
     it('weighting by σ_V makes B more accurate than ignoring it (20 seeded sweeps, same data both ways)', () => {
       let sqWeighted = 0, sqIgnored = 0, covered = 0;
       const runs = 20;
