@@ -29,7 +29,7 @@ export interface CaseOutcome {
   /** Gates the run failed. */
   failures: string[];
   /** Residual RMS over frame noise, effective frames, lag-1 autocorrelation (for tuning the gates). */
-  diagnostics?: { bitsPerPixel: number; residualOverFrameNoise: number; effectiveFrames: number; rho: number; budgetB: Record<string, number> };
+  diagnostics?: { bitsPerPixel: number; residualOverFrameNoise: number; effectiveFrames: number; rho: number; budgetB: Record<string, number>; responseGamma?: { value: number; stdErr: number; checked: boolean } };
   figures: Partial<Record<'B' | 'Vpi' | 'offset' | 'floor', FigureOutcome>>;
   seconds: number;
 }
@@ -60,6 +60,7 @@ export async function runCase(c: AccuracyCase, workDir: string): Promise<CaseOut
       diagnostics: {
         bitsPerPixel: result.camera.bitsPerPixel ?? NaN, residualOverFrameNoise: result.fit.residualOverFrameNoise ?? NaN, effectiveFrames: result.fit.effectiveFrames ?? NaN, rho: result.fit.residualAutocorrelation,
         budgetB: Object.fromEntries((result.uncertainty?.kerrConstant.terms ?? []).map((t) => [t.name, t.relative])),
+        ...(result.cameraResponse ? { responseGamma: { ...result.cameraResponse.check.gamma, checked: result.cameraResponse.check.checked } } : {}),
       },
       figures: {
         B: q(result.kerrConstant, truth.B), Vpi: q(result.halfWaveVoltage, truth.halfWaveVoltageV),

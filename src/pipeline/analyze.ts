@@ -815,7 +815,7 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
   // The run's own response check: the correction it would make to B is not applied, so its size
   // (and the check's own scatter) enters the budget as the camera-response term (GUM 3.2.4 / F.2.4.5:
   // an uncorrected known effect is carried as an uncertainty). An explicit option wins.
-  const responseU = response.record.check.checked ? response.record.check.standardUncertainty.value / fit.kerrConstant.value : undefined;
+  const responseU = response.record.check.standardUncertainty.value / fit.kerrConstant.value;
   const cameraResponseRel = o.cameraResponseRel ?? (responseU !== undefined && Number.isFinite(responseU) && responseU > 0 ? responseU : undefined);
   const offsetU = syncOffsetUncertaintyS(offsetStdErrS, fit.errorInflation, times);
   const uncertainty = runUncertainty({
@@ -828,6 +828,8 @@ export function fitMeasuredRun(m: MeasuredRun, extraExclusions: ReadonlyMap<numb
     lengthM: effectiveLengthM, lengthToleranceM: (o.lengthToleranceMm ?? 0) * MM,
     ...(cameraResponseRel !== undefined ? { cameraResponseRel } : {}),
     ...(openLevel !== undefined ? { openLevel: { stdErr: m.openLevelStdErr, note: m.openLevelNote } } : {}),
+    ...(o.cameraResponseRel === undefined && cameraResponseRel !== undefined && !response.record.check.checked
+      ? { cameraResponseNote: `no response check (sweep below 0.8·V_π, no open level): B refitted at γ = 1 ± ${response.record.check.gamma.stdErr} (prior)` } : {}),
     frames: { voltageV: voltage, intensity, include: Uint8Array.from(excluded, (e) => (e ? 0 : 1)), timesS: times },
   });
   const noiseOfFrames = frameNoise(Float64Array.from(useIdx, (f) => intensity[f]!));

@@ -33,6 +33,8 @@ export interface RunUncertaintyInput {
   openLevel?: { stdErr: number | undefined; note: string };
   /** Relative standard uncertainty the camera response puts on B, when known. */
   cameraResponseRel?: number;
+  /** Where the camera-response term comes from (default: the run's response check). */
+  cameraResponseNote?: string;
   /** Every frame (time order) for the rising/falling comparison; omitted: no ramp term. */
   frames?: { voltageV: Float64Array; intensity: Float64Array; include: Uint8Array; timesS: Float64Array };
 }
@@ -124,6 +126,6 @@ export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: Uncertai
     gapNote: i.gapToleranceM > 0 ? `gap ±${(i.gapToleranceM * 1000).toPrecision(3)} mm (rectangular, /√3)` : 'no gap tolerance given (--gap-mm D±T)',
     lengthRel: rectangularRelative(i.lengthToleranceM, i.lengthM),
     lengthNote: i.lengthToleranceM > 0 ? `length ±${(i.lengthToleranceM * 1000).toPrecision(3)} mm (rectangular, /√3)` : 'no length tolerance given (--length-mm L±T)',
-    ...(i.cameraResponseRel !== undefined ? { cameraResponseRel: i.cameraResponseRel, cameraResponseNote: 'camera response check' } : {}),
+    ...(i.cameraResponseRel !== undefined ? { cameraResponseRel: i.cameraResponseRel, cameraResponseNote: i.cameraResponseNote ?? 'camera response check' } : {}),
   });
 }

@@ -79,6 +79,50 @@ function skipped(reason: string): ResponseCheck {
   };
 }
 
+/**
+ * Prior standard uncertainty of γ for footage whose own check cannot run (our choice): the robust
+ * spread (1.4826·median |γ − 1|) of γ fitted by the check in the coverage study's valid runs where
+ * it ran, 0.017 over 35 runs of tag-honouring H.264 at CRF 16–34, rounded up (docs/uncertainty.md,
+ * "camera-response term without a check").
+ */
+export const PRIOR_GAMMA_STD_ERR = 0.02;
+
+/**
+ * B's sensitivity to the response exponent when the check cannot run: refit K, φ and V_π with γ held
+ * at 1 + u and 1 − u (u = PRIOR_GAMMA_STD_ERR), u(B) = |B₊ − B₋|/2 (GUM §5.1.3, a central
+ * difference for the sensitivity coefficient times u(γ)). null when either refit fails.
+ */
+function priorSensitivity(input: ResponseCheckInput, x: Float64Array, y: Float64Array, angleFactor: number, halfStatic: number): number | null {
+  if (x.length < 20) return null;
+  const vpi0 = input.fit.halfWaveVoltageV;
+  const phi0 = Math.max(1e-4, input.fit.floor / input.fit.amplitude);
+  const at = (gamma: number): number => {
+    const kappa = 1 / gamma;
+    const model: CurveModel = {
+      nParams: 3,
+      value(p, v) {
+        const s = Math.sin((Math.PI / 2) * (v / p[2]!) * (v / p[2]!) + halfStatic);
+        const base = p[1]! + angleFactor * s * s;
+        return p[0]! * Math.pow(base > 1e-12 ? base : 1e-12, kappa);
+      },
+    };
+    try {
+      const res = levenbergMarquardt(model, x, y, [input.fit.amplitude, phi0, vpi0], {
+        lower: [0, 1e-6, 0.5 * vpi0], upper: [Infinity, 10, 2 * vpi0], maxIterations: 300,
+      });
+      if (!Number.isFinite(res.rss)) return NaN;
+      const vpi = res.params[2]!;
+      return (input.gapM * input.gapM) / (2 * input.effectiveLengthM * vpi * vpi);
+    } catch {
+      return NaN;
+    }
+  };
+  const plus = at(1 + PRIOR_GAMMA_STD_ERR);
+  const minus = at(1 - PRIOR_GAMMA_STD_ERR);
+  const u = Math.abs(plus - minus) / 2;
+  return Number.isFinite(u) ? u : null;
+}
+
 export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const { voltageV, intensity, used, fit } = input;
   const angleFactor = Math.sin((2 * input.polariserAngleDeg * Math.PI) / 180) ** 2;
@@ -96,7 +140,14 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const reach = vMax / fit.halfWaveVoltageV;
   const haveOpen = input.openLevel !== undefined && input.openLevel > 0;
   if (reach < 0.8 && !haveOpen) {
-    return skipped(`the sweep reaches ${(reach * 100).toFixed(0)} % of the half-wave voltage and no open level is known, so the response cannot be told from the half-wave voltage`);
+    const reason = `the sweep reaches ${(reach * 100).toFixed(0)} % of the half-wave voltage and no open level is known, so the response cannot be told from the half-wave voltage`;
+    const prior = priorSensitivity(input, Float64Array.from(xs), Float64Array.from(ys), angleFactor, halfStatic);
+    if (prior === null) return skipped(`${reason}; B could not be refitted at γ = 1 ± ${PRIOR_GAMMA_STD_ERR}`);
+    return {
+      ...skipped(`${reason}: the camera-response term is B's sensitivity to γ = 1 ± ${PRIOR_GAMMA_STD_ERR} (prior)`),
+      gamma: { value: 1, stdErr: PRIOR_GAMMA_STD_ERR },
+      standardUncertainty: { value: prior, unit: 'm/V^2' },
+    };
   }
   if (xs.length < 20) return skipped('fewer than 20 usable frames');
   const weights = new Float64Array(xs.length + (haveOpen ? 1 : 0)).fill(1);

@@ -12,7 +12,8 @@
  * a start that hits its iteration limit is continued from where it stopped, every start is kept
  * in `startResults`, and the best by residual (see betterStart) is refined with Huber weights
  * (iteratively reweighted; with `robust: false` the effective-variance weights are kept and only
- * the Huber down-weighting is off). When the
+ * the Huber down-weighting is off; a refinement that leaves the start's data, see
+ * ROBUST_DRIFT_LIMIT, is redone without the interpolation weights or dropped). When the
  * amplitude is known from an open measurement it is held fixed, which removes the amplitude/V_π
  * trade-off of low sweeps. Identifiability is judged from the fit itself: the amplitude–V_π
  * correlation and B's relative standard error. Standard errors are widened for residuals
@@ -26,6 +27,16 @@ import { quantity, type Quantity } from '../../quantity.js';
 import { levenbergMarquardt, type CurveModel, type LmResult } from './levenbergMarquardt.js';
 import { fitRobust } from './robustFit.js';
 import { correlatedErrorInflation } from '../uncertainty/correlatedErrorInflation.js';
+
+/** Largest factor by which the Huber refinement may raise the median absolute residual of the best start (our choice). */
+export const ROBUST_DRIFT_LIMIT = 3;
+
+function medianAbsResidual(model: CurveModel, p: Float64Array, v: Float64Array, y: Float64Array): number {
+  const r = Float64Array.from(v, (x, i) => Math.abs(y[i]! - model.value(p, x)));
+  r.sort();
+  const m = r.length >> 1;
+  return r.length % 2 ? r[m]! : (r[m - 1]! + r[m]!) / 2;
+}
 
 export interface KerrCurveInput {
   voltageV: Float64Array;
@@ -294,8 +305,18 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   let weights: Float64Array = new Float64Array(n).fill(1);
   let outliers: Uint8Array = new Uint8Array(n);
   if (input.robust !== false) {
-    const robust = fitRobust(model, voltageV, intensity, best.start, { lower, upper, maxIterations: 200, weights: baseWeights });
-    if (Number.isFinite(robust.rss)) {
+    // The Huber refinement must stay on the data the best start describes: when it raises the
+    // median absolute residual more than ROBUST_DRIFT_LIMIT-fold (the interpolation weights can
+    // leave too few frames to pin a branch, e.g. a coarse log on a smooth drive), it is redone
+    // without those weights, and failing that the start's own least-squares solution is kept.
+    const startMedian = medianAbsResidual(model, p0, voltageV, intensity);
+    const stays = (r: LmResult): boolean => Number.isFinite(r.rss) && medianAbsResidual(model, r.params, voltageV, intensity) <= ROBUST_DRIFT_LIMIT * startMedian + 1e-15;
+    let robust = fitRobust(model, voltageV, intensity, best.start, { lower, upper, maxIterations: 200, weights: baseWeights });
+    if (!stays(robust)) {
+      robust = fitRobust(model, voltageV, intensity, best.start, { lower, upper, maxIterations: 200 });
+      if (stays(robust)) baseWeights.fill(1);
+    }
+    if (stays(robust)) {
       final = robust;
       weights = robust.weights;
       outliers = robust.outliers;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkCameraResponse } from '../../../src/core/fit/checkCameraResponse.js';
+import { checkCameraResponse, PRIOR_GAMMA_STD_ERR } from '../../../src/core/fit/checkCameraResponse.js';
 import { fitKerrCurve } from '../../../src/core/fit/fitKerrCurve.js';
 import { makeRng } from '../../../src/sim/rng.js';
 
@@ -7,14 +7,14 @@ const L = 0.05, D = 0.005, B = 2.4e-12;
 const VPI = D / Math.sqrt(2 * B * L); // V_π = d/√(2BL) (Kerr law)
 
 /** A sweep to `reach`·V_π and back; the camera reports (F + A·u)^(1/γ) plus noise (invented test data). */
-function run(gamma: number, reach: number, seed: number, withOpenLevel = false) {
+function run(gamma: number, reach: number, seed: number, withOpenLevel = false, noise = 0.002) {
   const rng = makeRng(seed);
   const n = 400;
   const v = new Float64Array(n), y = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     v[i] = reach * VPI * Math.sin((Math.PI * i) / (n - 1));
     const u = Math.sin((Math.PI / 2) * (v[i]! / VPI) ** 2) ** 2;
-    y[i] = Math.pow(0.01 + 0.5 * u, 1 / gamma) + 0.002 * rng.normal();
+    y[i] = Math.pow(0.01 + 0.5 * u, 1 / gamma) + noise * rng.normal();
   }
   const fit = fitKerrCurve({ voltageV: v, intensity: y, effectiveLengthM: L, gapM: D, polariserAngleDeg: 45 });
   const check = checkCameraResponse({
@@ -52,10 +52,20 @@ describe('checkCameraResponse: a power-law departure fitted jointly with V_π', 
     expect(Math.abs(check.gamma.value - 1.3)).toBeLessThan(3 * check.gamma.stdErr + 0.02);
   });
 
-  it('is skipped, with its reason, when the sweep stays well below V_π and no open level is known', () => {
+  it('is skipped, with its reason, when the sweep stays well below V_π and no open level is known; the term is then B refitted at the prior γ = 1 ± u', () => {
     const { check } = run(1.2, 0.5, 5);
     expect(check.checked).toBe(false);
     expect(check.reason).toMatch(/half-wave/);
-    expect(check.standardUncertainty.value).toBe(0);
+    expect(check.gamma).toEqual({ value: 1, stdErr: PRIOR_GAMMA_STD_ERR });
+    expect(check.standardUncertainty.value).toBeGreaterThan(0);
+  });
+
+  it('the prior term is the size of the error a departure of γ by u leaves in B (invented footage, γ = 1 + u, noise-free)', () => {
+    const { fit, check } = run(1 + PRIOR_GAMMA_STD_ERR, 0.6, 7, false, 0);
+    const error = Math.abs(fit.kerrConstant.value - B);
+    expect(error).toBeGreaterThan(0);
+    // a first-order sensitivity times u(γ): equal to the actual error within a third
+    expect(check.standardUncertainty.value / error).toBeGreaterThan(0.67);
+    expect(check.standardUncertainty.value / error).toBeLessThan(1.5);
   });
 });

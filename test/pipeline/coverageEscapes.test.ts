@@ -1,0 +1,40 @@
+/**
+ * Runs that escaped the coverage study (`npm run accuracy`, docs/uncertainty.md), rendered by the
+ * project's simulator from the study's own case generator and analysed as the study does. The
+ * truth is the simulator's planted B (invented numbers).
+ */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { randomCase } from '../../scripts/accuracy/randomCase.js';
+import { runCase } from '../../scripts/accuracy/runCase.js';
+
+let work: string;
+beforeAll(() => { work = mkdtempSync(join(tmpdir(), 'kt-escapes-')); });
+afterAll(() => { rmSync(work, { recursive: true, force: true }); });
+
+async function study(index: number) {
+  const out = await runCase(randomCase(index), join(work, `case-${index}`));
+  const b = out.figures.B!;
+  return { out, b, z: (b.value - b.truth) / b.stdErr };
+}
+
+describe('coverage-study escapes', () => {
+  it('case 135 (sine to 0.88·V_π, log at 2.5 Hz, auto-exposure): the Huber refinement no longer leaves the best start for a wrong branch (B was 3.9× the truth at z = 7.2)', async () => {
+    const { out, b, z } = await study(135);
+    expect(out.valid).toBe(true);
+    expect(Math.abs(b.value / b.truth - 1)).toBeLessThan(0.03);
+    expect(Math.abs(z)).toBeLessThan(2);
+  }, 60_000);
+
+  it('case 140 (steps to 0.65·V_π, no open level, so no response check): the budget carries the prior camera-response term and covers B (was z = 4.1)', async () => {
+    const { out, b, z } = await study(140);
+    expect(out.valid).toBe(true);
+    expect(out.diagnostics!.budgetB['camera-response']).toBeGreaterThan(0);
+    expect(out.diagnostics!.responseGamma!.checked).toBe(false);
+    expect(Math.abs(z)).toBeLessThan(2);
+    // not by inflating: B's error is still more than its statistical term alone would cover
+    expect(Math.abs(b.value / b.truth - 1)).toBeGreaterThan(2 * out.diagnostics!.budgetB.statistical!);
+  }, 60_000);
+});
