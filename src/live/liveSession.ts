@@ -25,6 +25,7 @@ import { validateRect } from '../measure/rect.js';
 import { findBeam } from '../core/regions/findBeam.js';
 import { cellBoxToRect, floodFill } from '../core/regions/cellGeometry.js';
 import { surroundWeights } from '../core/regions/localSurround.js';
+import { surroundRings } from '../core/regions/surroundRings.js';
 import { percentileSorted } from '../core/stats/percentileSorted.js';
 import { median } from '../core/fit/robustScale.js';
 import { stageOutputDir, type StagedDir } from '../io/outputDir.js';
@@ -82,14 +83,6 @@ export interface Snapshot {
 const RING_SECONDS = 120;
 const GRID_FRAMES = 150;
 const FIND_EVERY_MS = 1000;
-
-function grow(r: Rect, by: number, w: number, h: number): Rect {
-  const x0 = Math.max(0, r.x - by);
-  const y0 = Math.max(0, r.y - by);
-  const x1 = Math.min(w, r.x + r.w + by);
-  const y1 = Math.min(h, r.y + r.h + by);
-  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-}
 
 function rectText(r: Rect): string {
   return `${r.x},${r.y},${r.w},${r.h}`;
@@ -352,12 +345,7 @@ export class LiveSession {
 
   private applyBeam(live: Rect, src: Rect, how: 'flag' | 'drawn' | 'found' | 'brightest'): void {
     const W = this.o.info.liveWidth, H = this.o.info.liveHeight;
-    const side = Math.min(live.w, live.h);
-    const gapPx = Math.max(2, Math.round(0.15 * side));
-    const ringPx = Math.max(4, Math.round(0.25 * side));
-    const a0 = grow(live, gapPx, W, H);
-    const a1 = grow(a0, ringPx, W, H);
-    const b1 = grow(a1, ringPx, W, H);
+    const { a0, a1, b1 } = surroundRings(live, W, H);
     const sw = surroundWeights({ beam: live, a0, a1, b1 });
     this.beam = live;
     this.beamSrc = src;

@@ -35,6 +35,7 @@ import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { findBeam } from '../core/regions/findBeam.js';
 import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
+import { surroundRings } from '../core/regions/surroundRings.js';
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
@@ -178,16 +179,6 @@ export function defaultOutDir(videoPath: string): string {
   const abs = resolve(videoPath);
   return join(dirname(abs), `${basename(abs, extname(abs))}.kerrtrace`);
 }
-
-function grow(r: Rect, by: number, w: number, h: number): Rect {
-  const x0 = Math.max(0, r.x - by);
-  const y0 = Math.max(0, r.y - by);
-  const x1 = Math.min(w, r.x + r.w + by);
-  const y1 = Math.min(h, r.y + r.h + by);
-  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-}
-
-
 
 /** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
 function chooseGridStep(info: VideoInfo): number {
@@ -333,16 +324,10 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   if (o.roi) {
     add('beam', o.roi);
     if (!o.darkRoi) {
-      const side = Math.min(o.roi.w, o.roi.h);
-      const gapPx = Math.max(2, Math.round(0.15 * side));
-      const ringPx = Math.max(4, Math.round(0.25 * side));
-      const a0 = grow(o.roi, gapPx, info.width, info.height);
-      const a1 = grow(a0, ringPx, info.width, info.height);
-      const b1 = grow(a1, ringPx, info.width, info.height);
-      geom = { beam: o.roi, a0, a1, b1 };
-      add('a0', a0);
-      add('a1', a1);
-      add('b1', b1);
+      geom = surroundRings(o.roi, info.width, info.height);
+      add('a0', geom.a0);
+      add('a1', geom.a1);
+      add('b1', geom.b1);
     }
   }
   if (o.darkRoi) add('dark', o.darkRoi);
