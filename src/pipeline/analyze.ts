@@ -13,16 +13,10 @@ import { basename, dirname, extname, join, resolve } from 'node:path';
 import { KerrError, invalid, isKerrError } from '../errors.js';
 import { quantity, type Quantity } from '../quantity.js';
 import type { Rect, VideoInfo, CameraDecoding, TransferName } from '../media/types.js';
-import { probeMedia, type ProbeResult } from '../media/probe.js';
-import { openAnalysisStream } from '../media/analysisStream.js';
-import { decodingFor } from '../core/camera/decodingFor.js';
-import { decodingWarnings } from './decodingWarnings.js';
 import { cameraResponseRecord } from './cameraResponseRecord.js';
 import { checkCameraResponse } from '../core/fit/checkCameraResponse.js';
-import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
-import { createRegionMeter } from '../measure/regionMeter.js';
-import { createGridSampler } from '../measure/gridSampler.js';
-import { validateRect } from '../measure/rect.js';
+import type { CameraProfile } from '../io/cameraProfile.js';
+import { measureClip, openClip, type GridStore } from './measureClip.js';
 import { exposureGains } from '../measure/exposure.js';
 import { readVoltageLog } from '../io/readVoltageLog.js';
 import type { VoltageLog } from '../io/voltageLog.js';
@@ -32,11 +26,7 @@ import { checkRegionsApart } from '../core/gates/checkRegionsApart.js';
 import { checkLogUnits } from '../core/signal/checkLogUnits.js';
 import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
-import { findBeam } from '../core/regions/findBeam.js';
-import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
-import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
-import { surroundRings } from '../core/regions/surroundRings.js';
-import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
+import type { SurroundGeometry } from '../core/regions/localSurround.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { median } from '../core/fit/robustScale.js';
@@ -106,14 +96,6 @@ export interface AnalyzeHooks {
   ffmpegVersion: string | null;
 }
 
-export interface GridStore {
-  data: Float32Array; // frames × cells
-  frames: number;
-  gridWidth: number;
-  gridHeight: number;
-  step: number;
-}
-
 export interface AnalyzeOutput {
   result: RunResult;
   trace: TraceRow[];
@@ -180,114 +162,6 @@ export function defaultOutDir(videoPath: string): string {
   return join(dirname(abs), `${basename(abs, extname(abs))}.kerrtrace`);
 }
 
-/** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
-function chooseGridStep(info: VideoInfo): number {
-  let step = Math.max(2, Math.ceil(info.width / 160));
-  const frames = Math.max(1, info.frameCount);
-  while ((info.width / step) * (info.height / step) * frames > 60e6) step++;
-  return step;
-}
-
-/** Per-frame means of one region: linear luminance, the three channels, and the clipped fraction. */
-interface RegionSeries {
-  luma: Float64Array;
-  r: Float64Array;
-  g: Float64Array;
-  b: Float64Array;
-  clipped: Float64Array;
-}
-
-const SERIES_KEYS = ['luma', 'r', 'g', 'b', 'clipped'] as const;
-
-interface PassOutput {
-  times: Float64Array;
-  grid: GridStore;
-  regions: RegionSeries[];
-  frames: number;
-}
-
-function newSeries(cap: number): RegionSeries {
-  return { luma: new Float64Array(cap), r: new Float64Array(cap), g: new Float64Array(cap), b: new Float64Array(cap), clipped: new Float64Array(cap) };
-}
-
-function resizeSeries(s: RegionSeries, size: number): RegionSeries {
-  const out = newSeries(size);
-  for (const k of SERIES_KEYS) out[k].set(s[k].subarray(0, Math.min(size, s[k].length)));
-  return out;
-}
-
-/**
- * One decoding pass: frame times, the block overview (linear luminance per block, as if grey:
- * cheap, for finding the beam, flashes and maps) and full-resolution colour means of the regions.
- */
-async function decodePass(path: string, probe: ProbeResult, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
-  const info = probe.info;
-  // Regions nested inside the next one (beam ⊂ rings) share one crop and are measured as disjoint
-  // pieces, so every pixel is decoded into colour once.
-  const groups: number[][] = [];
-  for (let r = 0; r < regions.length; r++) {
-    const last = groups[groups.length - 1];
-    if (last && isNestedChain([regions[last[last.length - 1]!]!, regions[r]!])) last.push(r);
-    else groups.push([r]);
-  }
-  const outerOf = groups.map((g) => regions[g[g.length - 1]!]!);
-  let cap = Math.max(16, info.frameCount + 8);
-  let times = new Float64Array(cap);
-  const stream = openAnalysisStream(probe, outerOf, { ...(step ? { step } : {}), ...(onProgress ? { onProgress } : {}) });
-  const gw = stream.gridWidth;
-  const gh = stream.gridHeight;
-  const cells = gw * gh;
-  let grid = new Float32Array(step ? cap * cells : 0);
-  let series = regions.map(() => newSeries(cap));
-  const plans = groups.map((g, k) => {
-    const crop = stream.crops[k]!;
-    const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
-    const { pieces, ringOf } = nestedPieces(local);
-    // Rings (pieces outside the innermost region) hold slowly varying background: every other row.
-    const strides = ringOf.map((k) => (k > 0 ? 2 : 1));
-    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
-  });
-  const acc = new Float64Array(5);
-  const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
-  let n = 0;
-  const growTo = (next: number) => {
-    const t2 = new Float64Array(next); t2.set(times); times = t2;
-    if (step) { const g2 = new Float32Array(next * cells); g2.set(grid); grid = g2; }
-    series = series.map((x) => resizeSeries(x, next));
-    cap = next;
-  };
-  for await (const frame of stream.frames) {
-    if (n >= cap) growTo(Math.ceil(cap * 1.5));
-    times[n] = frame.timeS;
-    if (sampler && frame.overview) sampler.sample(frame.overview, grid.subarray(n * cells, (n + 1) * cells));
-    for (let k = 0; k < plans.length; k++) {
-      const plan = plans[k]!;
-      const parts = plan.meter.measure(frame.regions[k]!);
-      acc.fill(0);
-      let piece = 0;
-      for (let m = 0; m < plan.members.length; m++) {
-        // cumulative sums: rect m = rect m−1 plus the pieces of ring m
-        while (piece < parts.length && plan.ringOf[piece] === m) {
-          const p = parts[piece]!;
-          const c = plan.pieces[piece]!.w * plan.pieces[piece]!.h; // the piece's area, also when rows were skipped
-          acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
-          piece++;
-        }
-        const x = series[plan.members[m]!]!;
-        const count = plan.counts[m]!;
-        x.luma[n] = acc[0]! / count; x.r[n] = acc[1]! / count; x.g[n] = acc[2]! / count; x.b[n] = acc[3]! / count; x.clipped[n] = acc[4]! / count;
-      }
-    }
-    n++;
-  }
-  return {
-    times: times.slice(0, n),
-    grid: { data: step ? grid.subarray(0, n * cells) : grid, frames: n, gridWidth: gw, gridHeight: gh, step: step ?? 0 },
-    regions: series.map((x) => resizeSeries(x, n)),
-    frames: n,
-  };
-}
-
 export async function analyzeRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promise<AnalyzeOutput> {
   return fitMeasuredRun(await measureRun(o, hooks));
 }
@@ -299,46 +173,22 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const warn = (code: string, message: string, guideSection?: string) => {
     warnings.push(guideSection ? { code, message, guideSection } : { code, message });
   };
-  const cameraProfile = o.cameraProfilePath !== undefined ? { path: o.cameraProfilePath, profile: await readCameraProfile(o.cameraProfilePath) } : undefined;
-  const decodingOverrides: Partial<CameraDecoding> = { ...(o.transfer ? { transfer: o.transfer } : {}), ...(cameraProfile ? { response: cameraProfile.profile.response } : {}) };
-  const probe = await probeMedia(o.videoPath);
-  const info = probe.info;
-  const decoding = decodingFor(info, decodingOverrides);
-  warnings.push(...decodingWarnings(probe.notes, decoding.notes));
-  for (const [r, opt] of [[o.roi, '--roi'], [o.darkRoi, '--dark-roi'], [o.referenceRoi, '--reference-roi']] as const) {
-    if (r) validateRect(r, info.width, info.height, opt);
-  }
+  const opened = await openClip(o);
   const log: VoltageLog = await readVoltageLog(o.voltsPath);
   let vAbsMax = 0;
   for (const v of log.voltageV) vAbsMax = Math.max(vAbsMax, Math.abs(v));
-  checkLogUnits({ timeS: log.timeS, voltageV: log.voltageV, timeColumn: log.columns.time, videoDurationS: info.durationS, gapM: o.gapMm * MM, file: o.voltsPath });
+  checkLogUnits({ timeS: log.timeS, voltageV: log.voltageV, timeColumn: log.columns.time, videoDurationS: opened.probe.info.durationS, gapM: o.gapMm * MM, file: o.voltsPath });
   if (!(vAbsMax > 0)) {
     throw new KerrError('NOT_IDENTIFIABLE', `the voltage log ${o.voltsPath} never leaves zero`, { path: '--volts', hint: 'Check the voltage column and its unit, or record a sweep' });
   }
 
-  // ---- one decoding pass ----
-  const regions: Rect[] = [];
-  const idx: Record<string, number> = {};
-  const add = (name: string, r: Rect) => { idx[name] = regions.length; regions.push(r); };
-  let geom: SurroundGeometry | undefined;
-  if (o.roi) {
-    add('beam', o.roi);
-    if (!o.darkRoi) {
-      geom = surroundRings(o.roi, info.width, info.height);
-      add('a0', geom.a0);
-      add('a1', geom.a1);
-      add('b1', geom.b1);
-    }
-  }
-  if (o.darkRoi) add('dark', o.darkRoi);
-  if (o.referenceRoi) add('reference', o.referenceRoi);
-  const step = chooseGridStep(info);
-  const pass = await decodePass(o.videoPath, probe, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
-  const nFrames = pass.frames;
-  if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', nFrames === 1 ? `${o.videoPath} has only one frame that can be decoded; at least 10 are needed` : `${o.videoPath} has only ${nFrames} frames that can be decoded; at least 10 are needed`, { hint: 'Record a longer clip' });
-  const { grid } = pass;
+  const clip = await measureClip(opened, o, hooks);
+  warnings.push(...clip.warnings);
+  const { info, decoding, cameraProfile, times, nFrames, grid, beamRect, beamAuto, geom, haveSurround } = clip;
   const cells = grid.gridWidth * grid.gridHeight;
-  const times = pass.times;
+  const beamRaw = clip.beam.luma;
+  const beamClipped = clip.beam.clipped;
+  const surroundRaw = clip.background.luma;
 
   // ---- flashes: whole-frame brightness jumps ----
   const frameMean = new Float64Array(nFrames);
@@ -351,63 +201,6 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   const flashes = detectFlashes(frameMean);
   const events: RunEvent[] = [];
   for (let f = 0; f < nFrames; f++) if (flashes.flags[f]) events.push({ kind: 'spark', frameIndex: f, timeS: times[f]!, size: flashes.z[f]! });
-
-  // ---- beam, surround and their series ----
-  let beamRect: Rect;
-  let beamAuto = false;
-  const beamRaw = new Float64Array(nFrames);
-  const surroundRaw = new Float64Array(nFrames);
-  let haveSurround = true;
-  const beamClipped = new Float64Array(nFrames);
-  /** Full-resolution series of [beam, a0, a1, b1] when the beam was found automatically. */
-  let autoSeries: RegionSeries[] | null = null;
-  /** Per-frame means of [beam, a0, a1, b1]. */
-  let rectMeans: (f: number) => [number, number, number, number];
-  if (o.roi) {
-    beamRect = o.roi;
-    beamRaw.set(pass.regions[idx.beam!]!.luma);
-    beamClipped.set(pass.regions[idx.beam!]!.clipped);
-    rectMeans = geom
-      ? (f) => [beamRaw[f]!, pass.regions[idx.a0!]!.luma[f]!, pass.regions[idx.a1!]!.luma[f]!, pass.regions[idx.b1!]!.luma[f]!]
-      : () => [0, 0, 0, 0];
-  } else {
-    const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
-    beamAuto = true;
-    const gw = grid.gridWidth, gh = grid.gridHeight;
-    const growCells = (c: CellBox, by: number): CellBox => growCellBox(c, by, gw, gh);
-    const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);
-    const ring = Math.max(2, Math.round(size / 3));
-    const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
-    beamRect = cellBoxToRect(found.beam, grid.step);
-    geom = { beam: beamRect, a0: cellBoxToRect(boxes[1], grid.step), a1: cellBoxToRect(boxes[2], grid.step), b1: cellBoxToRect(boxes[3], grid.step) };
-    // The grid reads luminance as if every pixel were grey, which is fast and fine for finding the
-    // beam but not proportional for coloured light; a second pass reads the beam and its rings at
-    // full resolution with the full colour decoding (the decode is the cost; the meter is cheap).
-    const second = await decodePass(o.videoPath, probe, decoding, [beamRect, geom.a0, geom.a1, geom.b1], null, hooks.onProgress ? (d, t) => hooks.onProgress!('measuring the beam', d, t) : undefined);
-    if (second.frames !== nFrames) {
-      throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
-    }
-    autoSeries = second.regions;
-    beamRaw.set(second.regions[0]!.luma);
-    beamClipped.set(second.regions[0]!.clipped);
-    rectMeans = (f) => [beamRaw[f]!, second.regions[1]!.luma[f]!, second.regions[2]!.luma[f]!, second.regions[3]!.luma[f]!];
-    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
-  }
-  if (o.darkRoi) {
-    surroundRaw.set(pass.regions[idx.dark!]!.luma);
-  } else {
-    const sw = surroundWeights(geom!);
-    if (sw.ringACount < 16) {
-      haveSurround = false;
-      warn('no-surround', 'the beam region leaves no room for a surround ring, so the floor includes any background light; give --dark-roi', 'camera-still');
-    } else {
-      const c = sw.coefficients;
-      for (let f = 0; f < nFrames; f++) {
-        const m = rectMeans(f);
-        surroundRaw[f] = c[1] * m[1] + c[2] * m[2] + c[3] * m[3];
-      }
-    }
-  }
 
   checkRegionsApart({ beam: beamRect, beamOption: o.roi ? '--roi' : 'found automatically', ...(o.darkRoi ? { dark: o.darkRoi } : {}), ...(o.referenceRoi ? { reference: o.referenceRoi } : {}) });
 
@@ -438,7 +231,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   let gain: Float64Array = new Float64Array(nFrames).fill(1);
   if (o.referenceRoi) {
     try {
-      gain = exposureGains(pass.regions[idx.reference!]!.luma, o.darkRoi ? pass.regions[idx.dark!]!.luma : undefined).gains;
+      gain = exposureGains(clip.referenceLuma!, clip.darkLuma).gains;
     } catch (err) {
       if (!isKerrError(err)) throw err;
       warn('reference-dark', 'the reference region is never brighter than the dark level, so exposure could not be corrected from it; put it on a lit grey card', 'lock-exposure');
@@ -463,21 +256,7 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
   // ---- per-channel intensities (--channels rgb) ----
   let channelIntensity: MeasuredRun['channelIntensity'];
   if (o.channels === 'rgb') {
-    let beamS: RegionSeries, ringS: RegionSeries[] = [];
-    if (o.roi) {
-      beamS = pass.regions[idx.beam!]!;
-      ringS = o.darkRoi ? [pass.regions[idx.dark!]!] : geom ? [pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [];
-    } else {
-      beamS = autoSeries![0]!;
-      ringS = o.darkRoi ? [pass.regions[idx.dark!]!] : autoSeries!.slice(1);
-    }
-    const coef = !o.darkRoi && haveSurround && geom ? surroundWeights(geom).coefficients : null;
-    const channel = (k: 'r' | 'g' | 'b'): Float64Array => Float64Array.from(beamS[k], (v, f) => {
-      let bg = 0;
-      if (o.darkRoi) bg = ringS[0]![k][f]!;
-      else if (coef) bg = coef[1] * ringS[0]![k][f]! + coef[2] * ringS[1]![k][f]! + coef[3] * ringS[2]![k][f]!;
-      return (v - bg) / gain[f]!;
-    });
+    const channel = (k: 'r' | 'g' | 'b'): Float64Array => Float64Array.from(clip.beam[k], (v, f) => (v - clip.background[k][f]!) / gain[f]!);
     channelIntensity = { r: channel('r'), g: channel('g'), b: channel('b') };
   }
 
@@ -509,26 +288,8 @@ export async function measureRun(o: AnalyzeOptions, hooks: AnalyzeHooks): Promis
     openLevelStdErr = medianStdErr(vals);
     openLevelNote = `median of ${vals.length} open-window frames`;
   }
-  if (o.openVideoPath) {
-    const openProbe = await probeMedia(o.openVideoPath);
-    const openInfo = openProbe.info;
-    if (openInfo.width !== info.width || openInfo.height !== info.height) {
-      throw new KerrError('BAD_ARGUMENT', `the open video is ${openInfo.width}×${openInfo.height} but the run is ${info.width}×${info.height}`, { path: '--open-video', hint: 'Record the open level with the same camera settings' });
-    }
-    const openRegions: Rect[] = [beamRect];
-    if (o.darkRoi) openRegions.push(o.darkRoi);
-    else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
-    const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
-    const openPass = await decodePass(o.openVideoPath, openProbe, decodingFor(openInfo, decodingOverrides), openRegions, null);
-    const vals: number[] = [];
-    for (let f = 0; f < openPass.frames; f++) {
-      let bg = 0;
-      if (o.darkRoi) bg = openPass.regions[1]!.luma[f]!;
-      else if (haveSurround) {
-        bg = sw[1]! * openPass.regions[1]!.luma[f]! + sw[2]! * openPass.regions[2]!.luma[f]! + sw[3]! * openPass.regions[3]!.luma[f]!;
-      }
-      vals.push(openPass.regions[0]!.luma[f]! - bg);
-    }
+  if (clip.openVideoLevels) {
+    const vals = clip.openVideoLevels;
     openLevel = median(vals);
     openLevelStdErr = medianStdErr(vals);
     openLevelNote = `median of ${vals.length} open-video frames`;
