@@ -8,7 +8,7 @@
  * @example checkDriveModulates(logVoltageV, 50, 0.1) // returns nothing for a 0–10 kV ramp
  */
 import { KerrError } from '../../errors.js';
-import { roundTo } from './syncWarning.js';
+import { roundTo } from './roundTo.js';
 
 export function checkDriveModulates(logVoltageV: Float64Array, minDriveV: number, singleLevelFraction: number): void {
   const logCount = logVoltageV.length;

@@ -46,7 +46,8 @@ import { createModulationScorer } from './modulationScorer.js';
 import { refineSyncPeaks, type RefinedPeak } from './refineSyncPeaks.js';
 import { syncOffsetGrid, type OffsetGrid } from './syncOffsetGrid.js';
 import { syncPeakShape } from './syncPeakShape.js';
-import { roundTo, type SyncWarning } from './syncWarning.js';
+import { roundTo } from './roundTo.js';
+import type { SyncWarning } from './syncWarning.js';
 import { usableSyncFrames } from './usableSyncFrames.js';
 import { validateSyncInput } from './validateSyncInput.js';
 

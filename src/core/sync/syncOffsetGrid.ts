@@ -15,7 +15,8 @@
  */
 import { KerrError } from '../../errors.js';
 import type { ModulationScorer } from './modulationScorer.js';
-import { roundTo, type SyncWarning } from './syncWarning.js';
+import { roundTo } from './roundTo.js';
+import type { SyncWarning } from './syncWarning.js';
 
 export interface OffsetGridInput {
   /** Usable frame times, s, non-decreasing. */

@@ -25,8 +25,3 @@ export interface SyncWarning {
   /** The numbers behind the message (s for offsets and widths, R² dimensionless). */
   facts: Record<string, number | null>;
 }
-
-/** Significant-figure rounding used in the sync messages (display only). */
-export function roundTo(x: number, digits: number): number {
-  return Number(x.toPrecision(digits));
-}

@@ -8,7 +8,7 @@
  * @example usableSyncFrames(times, intensity, undefined, 20) → { timeS, intensity }
  */
 import { KerrError } from '../../errors.js';
-import { roundTo } from './syncWarning.js';
+import { roundTo } from './roundTo.js';
 
 export interface SyncFrames {
   timeS: Float64Array;
