@@ -1,48 +1,15 @@
 /**
  * `kerrtrace analyze VIDEO --volts CSV --length-mm L --gap-mm D [...]`: the main job.
  */
-import { parseTransfer as parseCoreTransfer } from '../../src/core/camera/transfer.js';
 import type { Command } from 'commander';
 import { action } from '../action.js';
 import { KerrError, invalid } from '../../src/errors.js';
-import { parseRect } from '../../src/measure/rect.js';
 import type { AnalyzeOptions } from '../../src/pipeline/analyze.js';
 import { checkOutputDir } from '../../src/io/outputDir.js';
-import type { TransferName } from '../../src/media/types.js';
 import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
 import { summaryText } from '../summaryText.js';
-
-export function parseNumber(text: string, option: string, what: string): number {
-  const x = Number(text);
-  if (text.trim() === '' || !Number.isFinite(x)) throw invalid(what, option, text);
-  return x;
-}
-
-/** The --transfer choice (srgb, bt709, hlg, pq, linear, gamma:G), parsed by the core's one parser. */
-export function parseTransfer(text: string): TransferName {
-  return parseCoreTransfer(text, '--transfer');
-}
-
-/**
- * A length with an optional tolerance: "40", "40±0.1" or "40+-0.1" (mm). The tolerance is a ±
- * limit; the budget takes it as rectangular (docs/uncertainty.md).
- */
-export function parseWithTolerance(text: string, option: string, what: string, unit = 'mm'): { value: number; tolerance?: number } {
-  const m = /^\s*([^±+]+?)\s*(?:(?:±|\+-|\+\/-)\s*(.+))?\s*$/.exec(text);
-  if (!m) throw invalid(`${what}, optionally with a tolerance (e.g. 4±0.05)`, option, text);
-  const value = parseNumber(m[1]!, option, `${what}, optionally with a tolerance (e.g. 4±0.05)`);
-  if (m[2] === undefined) return { value };
-  const tolerance = parseNumber(m[2], option, `a tolerance in ${unit} after ± (e.g. 4±0.05)`);
-  if (!(tolerance >= 0)) throw invalid('a tolerance of 0 or more after ±', option, text);
-  return { value, tolerance };
-}
-
-function parseWindow(text: string): [number, number] {
-  const m = /^\s*(-?[\d.]+)\s*:\s*(-?[\d.]+)\s*$/.exec(text);
-  if (!m) throw invalid('START:END in seconds of the video, e.g. 1.5:4', '--open-window', text);
-  return [Number(m[1]), Number(m[2])];
-}
+import { parseNumberOption, parsePercentOption, parseRectOption, parseToleranceOption, parseTransferOption, parseWindowOption } from '../optionParsers.js';
 
 export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
@@ -55,8 +22,8 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   if (!c.volts) throw new KerrError('BAD_ARGUMENT', 'the voltage log is missing', { path: '--volts', hint: 'Give it with --volts FILE.csv' });
   if (c.lengthMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode length is missing', { path: '--length-mm', hint: 'Give it with --length-mm L (mm)' });
   if (c.gapMm === undefined) throw new KerrError('BAD_ARGUMENT', 'the electrode gap is missing', { path: '--gap-mm', hint: 'Give it with --gap-mm D (mm)' });
-  const length = parseWithTolerance(c.lengthMm, '--length-mm', 'a positive electrode length in mm');
-  const gap = parseWithTolerance(c.gapMm, '--gap-mm', 'a positive electrode gap in mm');
+  const length = parseToleranceOption(c.lengthMm, '--length-mm', 'a positive electrode length in mm');
+  const gap = parseToleranceOption(c.gapMm, '--gap-mm', 'a positive electrode gap in mm');
   const o: AnalyzeOptions = {
     videoPath: video,
     voltsPath: c.volts,
@@ -65,26 +32,26 @@ export function toAnalyzeOptions(video: string, c: AnalyzeCliOptions): AnalyzeOp
   };
   if (length.tolerance !== undefined) o.lengthToleranceMm = length.tolerance;
   if (gap.tolerance !== undefined) o.gapToleranceMm = gap.tolerance;
-  if (c.voltsAccuracy !== undefined) o.voltsAccuracyPercent = parseNumber(c.voltsAccuracy.replace(/%$/, ''), '--volts-accuracy', 'a logger accuracy in percent of reading (e.g. 1)');
-  if (c.effectiveLengthMm !== undefined) o.effectiveLengthMm = parseNumber(c.effectiveLengthMm, '--effective-length-mm', 'an effective length in mm');
-  if (c.polariserAngleDeg !== undefined) o.polariserAngleDeg = parseNumber(c.polariserAngleDeg, '--polariser-angle-deg', 'an angle in degrees');
-  if (c.staticRetardanceRad !== undefined) o.staticRetardanceRad = parseNumber(c.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
-  if (c.roi !== undefined) o.roi = parseRect(c.roi, '--roi');
-  if (c.darkRoi !== undefined) o.darkRoi = parseRect(c.darkRoi, '--dark-roi');
-  if (c.referenceRoi !== undefined) o.referenceRoi = parseRect(c.referenceRoi, '--reference-roi');
-  if (c.offsetS !== undefined) o.offsetS = parseNumber(c.offsetS, '--offset-s', 'an offset in seconds');
-  if (c.openWindow !== undefined) o.openWindowS = parseWindow(c.openWindow);
+  if (c.voltsAccuracy !== undefined) o.voltsAccuracyPercent = parsePercentOption(c.voltsAccuracy, '--volts-accuracy', 'a logger accuracy in percent of reading (e.g. 1)');
+  if (c.effectiveLengthMm !== undefined) o.effectiveLengthMm = parseNumberOption(c.effectiveLengthMm, '--effective-length-mm', 'an effective length in mm');
+  if (c.polariserAngleDeg !== undefined) o.polariserAngleDeg = parseNumberOption(c.polariserAngleDeg, '--polariser-angle-deg', 'an angle in degrees');
+  if (c.staticRetardanceRad !== undefined) o.staticRetardanceRad = parseNumberOption(c.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
+  if (c.roi !== undefined) o.roi = parseRectOption(c.roi, '--roi');
+  if (c.darkRoi !== undefined) o.darkRoi = parseRectOption(c.darkRoi, '--dark-roi');
+  if (c.referenceRoi !== undefined) o.referenceRoi = parseRectOption(c.referenceRoi, '--reference-roi');
+  if (c.offsetS !== undefined) o.offsetS = parseNumberOption(c.offsetS, '--offset-s', 'an offset in seconds');
+  if (c.openWindow !== undefined) o.openWindowS = parseWindowOption(c.openWindow, '--open-window');
   if (c.openVideo !== undefined) o.openVideoPath = c.openVideo;
   if (c.openLevel !== undefined) {
-    const level = parseWithTolerance(c.openLevel, '--open-level', 'a positive open level in linear units', 'linear units');
+    const level = parseToleranceOption(c.openLevel, '--open-level', 'a positive open level in linear units', 'linear units');
     o.openLevel = level.value;
     if (level.tolerance !== undefined) o.openLevelTolerance = level.tolerance;
   }
-  if (c.transfer !== undefined) o.transfer = parseTransfer(c.transfer);
+  if (c.transfer !== undefined) o.transfer = parseTransferOption(c.transfer, '--transfer');
   if (c.cameraProfile !== undefined) o.cameraProfilePath = c.cameraProfile;
-  if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumber(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
+  if (c.electrodeHeightMm !== undefined) o.electrodeHeightMm = parseNumberOption(c.electrodeHeightMm, '--electrode-height-mm', 'an electrode height in mm');
   if (c.label !== undefined) o.label = c.label;
-  if (c.wavelengthNm !== undefined) o.wavelengthNm = parseNumber(c.wavelengthNm, '--wavelength-nm', 'a wavelength in nm');
+  if (c.wavelengthNm !== undefined) o.wavelengthNm = parseNumberOption(c.wavelengthNm, '--wavelength-nm', 'a wavelength in nm');
   if (c.robust === false) o.robust = false;
   if (c.channels !== undefined) {
     if (c.channels !== 'rgb') throw invalid('rgb (fit the red, green and blue channels separately)', '--channels', c.channels);

@@ -6,7 +6,7 @@ import type { Command } from 'commander';
 import { action } from '../action.js';
 import { designCellReport, type DesignRequest } from '../../src/design/designCellReport.js';
 import { formatDesignTable } from '../../src/design/formatDesignTable.js';
-import { parseNumberOption } from '../../src/design/parseNumberOption.js';
+import { parseNumberOption } from '../optionParsers.js';
 import { liquidNames } from '../../src/data/liquids.js';
 
 interface DesignOptions {
@@ -28,7 +28,7 @@ interface DesignOptions {
 function toRequest(o: DesignOptions): DesignRequest {
   const r: DesignRequest = {};
   const num = (text: string | undefined, option: string, what: string, scale: number): number | undefined =>
-    text === undefined ? undefined : parseNumberOption(text, option, what, 'positive') * scale;
+    text === undefined ? undefined : parseNumberOption(text, option, `a positive ${what}`, 'positive') * scale;
   const set = <K extends keyof DesignRequest>(key: K, value: DesignRequest[K] | undefined): void => {
     if (value !== undefined) r[key] = value;
   };

@@ -4,7 +4,7 @@
  * parameters in a scenario file (docs/scenario.md).
  */
 import type { Command } from 'commander';
-import { invalid } from '../../src/errors.js';
+import { parseWholeNumberOption } from '../optionParsers.js';
 import { formatNumber } from '../../src/quantity.js';
 import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
@@ -18,9 +18,7 @@ interface SimulateCliOptions {
 
 function parseSeed(text: string | undefined): number | undefined {
   if (text === undefined) return undefined;
-  const n = Number(text);
-  if (!/^-?\d+$/.test(text.trim()) || !Number.isSafeInteger(n)) throw invalid('a whole number', '--seed', text, 'Give an integer seed, e.g. --seed 7');
-  return n;
+  return parseWholeNumberOption(text, '--seed', 'a whole number', -Number.MAX_SAFE_INTEGER, Number.MAX_SAFE_INTEGER, 'Give an integer seed, e.g. --seed 7');
 }
 
 export function register(program: Command): void {

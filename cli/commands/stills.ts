@@ -18,10 +18,8 @@ import { summaryText } from '../summaryText.js';
 import { toolVersion } from '../toolVersion.js';
 import { KerrError, invalid, isKerrError } from '../../src/errors.js';
 import type { Rect, TransferName } from '../../src/media/types.js';
-import { parseRect } from '../../src/measure/rect.js';
-import { parseTransfer } from '../../src/core/camera/transfer.js';
 import { checkOutputDir } from '../../src/io/outputDir.js';
-import { parseNumberOption } from '../../src/design/parseNumberOption.js';
+import { parseNumberOption, parseRectOption, parseTransferOption } from '../optionParsers.js';
 import type { InputFile } from '../../src/result/schema.js';
 import type { StillsOptions } from '../../src/stills/readStillsSeries.js';
 
@@ -88,23 +86,23 @@ export function register(program: Command): void {
     .action(
       action(async (folder: string, o: StillsCliOptions) => {
         // Settings first, checked where they enter.
-        const lengthMm = parseNumberOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'electrode length in mm', 'positive');
-        const gapMm = parseNumberOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'electrode gap in mm', 'positive');
-        const effectiveLengthMm = o.effectiveLengthMm === undefined ? lengthMm : parseNumberOption(o.effectiveLengthMm, '--effective-length-mm', 'effective length in mm', 'positive');
+        const lengthMm = parseNumberOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'a positive electrode length in mm', 'positive');
+        const gapMm = parseNumberOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'a positive electrode gap in mm', 'positive');
+        const effectiveLengthMm = o.effectiveLengthMm === undefined ? lengthMm : parseNumberOption(o.effectiveLengthMm, '--effective-length-mm', 'a positive effective length in mm', 'positive');
         if (effectiveLengthMm < lengthMm) {
           throw invalid(`an effective length at least the electrode length (${lengthMm} mm)`, '--effective-length-mm', o.effectiveLengthMm, 'Fringe fields only lengthen the cell');
         }
-        const polariserAngleDeg = parseNumberOption(o.polariserAngleDeg ?? '45', '--polariser-angle-deg', 'angle in degrees', 'finite');
-        const staticRetardanceRad = o.staticRetardanceRad === undefined ? undefined : parseNumberOption(o.staticRetardanceRad, '--static-retardance-rad', 'retardance in rad', 'finite');
-        const openLevel = o.openLevel === undefined ? undefined : parseNumberOption(o.openLevel, '--open-level', 'open level in the linear units of trace.csv', 'positive');
+        const polariserAngleDeg = parseNumberOption(o.polariserAngleDeg ?? '45', '--polariser-angle-deg', 'an angle in degrees');
+        const staticRetardanceRad = o.staticRetardanceRad === undefined ? undefined : parseNumberOption(o.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
+        const openLevel = o.openLevel === undefined ? undefined : parseNumberOption(o.openLevel, '--open-level', 'a positive open level in the linear units of trace.csv', 'positive');
         if (openLevel !== undefined && o.openPhoto !== undefined) {
           throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-level and --open-photo', { path: '--open-photo', hint: 'They are two ways to give the same open level' });
         }
-        const rect = (text: string | undefined, option: string): Rect | undefined => (text === undefined ? undefined : parseRect(text, option));
+        const rect = (text: string | undefined, option: string): Rect | undefined => (text === undefined ? undefined : parseRectOption(text, option));
         const roi = rect(o.roi, '--roi');
         const darkRoi = rect(o.darkRoi, '--dark-roi');
         const referenceRoi = rect(o.referenceRoi, '--reference-roi');
-        const transfer: TransferName | undefined = o.transfer === undefined ? undefined : parseTransfer(o.transfer, '--transfer');
+        const transfer: TransferName | undefined = o.transfer === undefined ? undefined : parseTransferOption(o.transfer, '--transfer');
         if (o.label !== undefined && o.label.trim() === '') throw invalid('a non-empty label', '--label', o.label);
         const outDir = o.out ?? defaultStillsOutDir(folder);
         checkOutputDir(outDir, o.force === true, [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])]);

@@ -12,9 +12,9 @@ import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
 import { KerrError } from '../../src/errors.js';
 import { checkOutputFile, writeOutputFile } from '../../src/io/outputDir.js';
-import { parseTransfer } from '../../src/core/camera/transfer.js';
 import type { Rect } from '../../src/media/types.js';
-import { parseRect, validateRect } from '../../src/measure/rect.js';
+import { validateRect } from '../../src/measure/rect.js';
+import { parseRectOption, parseTransferOption } from '../optionParsers.js';
 import type { TraceOptions } from '../../src/pipeline/trace.js';
 
 interface TraceCliOptions {
@@ -45,10 +45,10 @@ export function register(program: Command): void {
       if (c.roi === undefined || c.roi.length === 0) {
         throw new KerrError('BAD_ARGUMENT', 'no region to trace', { path: '--roi', hint: 'Give at least one --roi x,y,w,h (see `kerrtrace inspect` for the frame size)' });
       }
-      const regions: Rect[] = (c.roi ?? []).map((r) => parseRect(r, '--roi'));
-      const dark = c.darkRoi !== undefined ? parseRect(c.darkRoi, '--dark-roi') : undefined;
-      const reference = c.referenceRoi !== undefined ? parseRect(c.referenceRoi, '--reference-roi') : undefined;
-      const transfer = c.transfer !== undefined ? parseTransfer(c.transfer, '--transfer') : undefined;
+      const regions: Rect[] = (c.roi ?? []).map((r) => parseRectOption(r, '--roi'));
+      const dark = c.darkRoi !== undefined ? parseRectOption(c.darkRoi, '--dark-roi') : undefined;
+      const reference = c.referenceRoi !== undefined ? parseRectOption(c.referenceRoi, '--reference-roi') : undefined;
+      const transfer = c.transfer !== undefined ? parseTransferOption(c.transfer, '--transfer') : undefined;
       if (c.out !== undefined) checkOutputFile(c.out, c.force === true, [video]);
 
       // The media layer loads only when the command runs, so that `kerrtrace --help` starts quickly.

@@ -8,8 +8,8 @@ import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { action } from '../action.js';
-import { KerrError, invalid } from '../../src/errors.js';
-import { parseRect } from '../../src/measure/rect.js';
+import { KerrError } from '../../src/errors.js';
+import { parseNumberOption, parseRectOption, parseWholeNumberOption } from '../optionParsers.js';
 import type { Rect } from '../../src/media/types.js';
 
 interface WatchCliOptions {
@@ -33,18 +33,11 @@ interface WatchCliOptions {
   idleS?: string;
 }
 
-function positiveNumber(text: string | undefined, option: string, what: string): string | null {
+/** A positive number checked by the shared parser; the live session keeps the text (it repeats it in the analyze command it suggests). */
+function positiveText(text: string | undefined, option: string, expected: string): string | null {
   if (text === undefined) return null;
-  const x = Number(text);
-  if (text.trim() === '' || !Number.isFinite(x) || x <= 0) throw invalid(what, option, text);
+  parseNumberOption(text, option, expected, 'positive');
   return text.trim();
-}
-
-function wholeNumber(text: string | undefined, option: string, what: string, lo: number, hi: number, fallback: number): number {
-  if (text === undefined) return fallback;
-  const x = Number(text);
-  if (!/^\d+$/.test(text.trim()) || x < lo || x > hi) throw invalid(what, option, text);
-  return x;
 }
 
 const LOOPBACK = new Set(['127.0.0.1', 'localhost', '::1']);
@@ -73,22 +66,21 @@ export function register(program: Command): void {
     .option('--max-width <px>', 'scale the live picture down to this width for the meters (default 640)')
     .option('--idle-s <s>', 'release the camera after this many seconds with no page open (default 30)')
     .action(action(async (device: string, c: WatchCliOptions) => {
-      const lengthMm = positiveNumber(c.lengthMm, '--length-mm', 'a positive electrode length in mm');
-      const gapMm = positiveNumber(c.gapMm, '--gap-mm', 'a positive electrode gap in mm');
-      const effectiveLengthMm = positiveNumber(c.effectiveLengthMm, '--effective-length-mm', 'a positive effective length in mm');
-      const angle = c.polariserAngleDeg === undefined ? 45 : Number(c.polariserAngleDeg);
-      if (!Number.isFinite(angle)) throw invalid('an angle in degrees', '--polariser-angle-deg', c.polariserAngleDeg);
+      const lengthMm = positiveText(c.lengthMm, '--length-mm', 'a positive electrode length in mm');
+      const gapMm = positiveText(c.gapMm, '--gap-mm', 'a positive electrode gap in mm');
+      const effectiveLengthMm = positiveText(c.effectiveLengthMm, '--effective-length-mm', 'a positive effective length in mm');
+      const angle = c.polariserAngleDeg === undefined ? 45 : parseNumberOption(c.polariserAngleDeg, '--polariser-angle-deg', 'an angle in degrees');
       const rects: { roi: Rect | null; darkRoi: Rect | null; referenceRoi: Rect | null } = {
-        roi: c.roi !== undefined ? parseRect(c.roi, '--roi') : null,
-        darkRoi: c.darkRoi !== undefined ? parseRect(c.darkRoi, '--dark-roi') : null,
-        referenceRoi: c.referenceRoi !== undefined ? parseRect(c.referenceRoi, '--reference-roi') : null,
+        roi: c.roi !== undefined ? parseRectOption(c.roi, '--roi') : null,
+        darkRoi: c.darkRoi !== undefined ? parseRectOption(c.darkRoi, '--dark-roi') : null,
+        referenceRoi: c.referenceRoi !== undefined ? parseRectOption(c.referenceRoi, '--reference-roi') : null,
       };
-      const recordForS = c.recordFor === undefined ? null : Number(positiveNumber(c.recordFor, '--record-for', 'a positive number of seconds'));
+      const recordForS = c.recordFor === undefined ? null : parseNumberOption(c.recordFor, '--record-for', 'a positive number of seconds', 'positive');
       if (recordForS !== null && !c.record) throw new KerrError('BAD_ARGUMENT', '--record-for needs --record', { path: '--record-for', hint: 'Add --record, or start recording from the page' });
       const host = c.host ?? '127.0.0.1';
-      const port = wholeNumber(c.port, '--port', 'a port number from 0 to 65535', 0, 65535, 0);
-      const maxWidth = wholeNumber(c.maxWidth, '--max-width', 'a width from 64 to 4096 pixels', 64, 4096, 640);
-      const idleS = wholeNumber(c.idleS, '--idle-s', 'a whole number of seconds from 1 to 86400', 1, 86400, 30);
+      const port = c.port === undefined ? 0 : parseWholeNumberOption(c.port, '--port', 'a port number from 0 to 65535', 0, 65535);
+      const maxWidth = c.maxWidth === undefined ? 640 : parseWholeNumberOption(c.maxWidth, '--max-width', 'a width from 64 to 4096 pixels', 64, 4096);
+      const idleS = c.idleS === undefined ? 30 : parseWholeNumberOption(c.idleS, '--idle-s', 'a whole number of seconds from 1 to 86400', 1, 86400);
       if (c.demo && (c.source !== undefined || c.volts !== undefined)) throw new KerrError('BAD_ARGUMENT', '--demo brings its own clip and log', { path: '--demo', hint: 'Leave out --source and --volts with --demo' });
 
       const [{ sourceSpec, probeSource }, { LiveSession }, { startLiveServer }, { prepareDemoSource }, { replayLog }] = await Promise.all([

@@ -37,6 +37,13 @@ describe('parseStillsMap', () => {
     expect(tab.voltageByFile.get('x.png')!.voltageV).toBe(300);
   });
 
+  it('follows the one CSV dialect shared with the voltage log: comments, a sep= line, CR line ends', () => {
+    // Our own dialect (src/io/csv/readCsvDialect, docs/voltage-log.md "The CSV dialect").
+    const m = parseStillsMap('# shot list\rsep=;\rfile;voltage_kV\r# first\ra.jpg;1,5\r', 'm.csv');
+    expect(m.delimiter).toBe(';');
+    expect([...m.voltageByFile.entries()].map(([f, e]) => [f, e.voltageV, e.line])).toEqual([['a.jpg', 1500, 5]]);
+  });
+
   it('accepts a file repeated with the same voltage and counts it', () => {
     const m = parseStillsMap('file,voltage\na.jpg,100\na.jpg,100\nb.jpg,200\n', 'm.csv');
     expect(m.duplicates).toBe(1);

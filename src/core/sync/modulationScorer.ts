@@ -22,6 +22,8 @@
  *   scorer.gather(0.9) > 0 && scorer.score(0.95) // ≈ 1 for a noiseless trace at offset 0.9 s
  */
 
+import { lowerBound, segmentIndex, upperBound } from './sortedSearch.js';
+
 const TABLE_SIZE = 4096; // entries per half period π of sin²
 const SIN2_TABLE = (() => {
   const table = new Float64Array(TABLE_SIZE + 1);
@@ -45,6 +47,23 @@ export interface ModulationScorer {
   readonly maxAbsVoltageV: number;
 }
 
+/** The frames gathered for one trial offset: (V/V_max)² and centred intensity, first `count` entries valid. */
+interface Gathered {
+  u: Float64Array;
+  centred: Float64Array;
+  count: number;
+  /** Σ(I − Ī)² over the gathered frames. */
+  sumSquaresI: number;
+}
+
+interface Trace {
+  frameTimesS: Float64Array;
+  intensity: Float64Array;
+  logTimeS: Float64Array;
+  /** Log voltage divided by its largest |V|. */
+  logVoltageNorm: Float64Array;
+}
+
 export function createModulationScorer(
   frameTimesS: Float64Array,
   intensity: Float64Array,
@@ -52,139 +71,112 @@ export function createModulationScorer(
   logVoltageV: Float64Array,
   minFrames: number,
 ): ModulationScorer {
-  const frameCount = frameTimesS.length;
   const logCount = logTimeS.length;
   let maxAbsVoltageV = 0;
   for (let i = 0; i < logCount; i++) maxAbsVoltageV = Math.max(maxAbsVoltageV, Math.abs(logVoltageV[i]));
   const logVoltageNorm = new Float64Array(logCount);
   for (let i = 0; i < logCount; i++) logVoltageNorm[i] = logVoltageV[i] / maxAbsVoltageV;
+  const trace: Trace = { frameTimesS, intensity, logTimeS, logVoltageNorm };
   const logStartS = logTimeS[0];
   const logEndS = logTimeS[logCount - 1];
+  const g: Gathered = { u: new Float64Array(frameTimesS.length), centred: new Float64Array(frameTimesS.length), count: 0, sumSquaresI: 0 };
+  return {
+    gather: (offsetS) => gatherFrames(g, trace, offsetS, minFrames),
+    score: (vpiRatio) => scoreExact(g, vpiRatio),
+    scoreGrid: (vpiRatios) => scoreTabulated(g, vpiRatios),
+    overlapFrames: (offsetS) => upperBound(frameTimesS, logEndS + offsetS) - lowerBound(frameTimesS, logStartS + offsetS),
+    maxAbsVoltageV,
+  };
+}
 
-  const u = new Float64Array(frameCount); // (V/V_max)² of the gathered frames
-  const centred = new Float64Array(frameCount); // I − Ī of the gathered frames
+/** Fill `g` with the frames whose log time lies inside the log (two-pointer walk); 0 when fewer than minFrames. */
+function gatherFrames(g: Gathered, trace: Trace, offsetS: number, minFrames: number): number {
+  const { frameTimesS, intensity, logTimeS, logVoltageNorm } = trace;
+  const logCount = logTimeS.length;
+  const first = lowerBound(frameTimesS, logTimeS[0] + offsetS);
+  const end = upperBound(frameTimesS, logTimeS[logCount - 1] + offsetS);
+  g.count = 0;
+  if (end - first < minFrames) return 0;
+  // Two-pointer walk: frames and log samples are both in time order.
+  let j = segmentIndex(logTimeS, frameTimesS[first] - offsetS);
+  let sumI = 0;
   let gathered = 0;
+  for (let k = first; k < end; k++) {
+    const logT = frameTimesS[k] - offsetS;
+    while (j < logCount - 2 && logTimeS[j + 1] <= logT) j++;
+    const t0 = logTimeS[j];
+    const t1 = logTimeS[j + 1];
+    let fraction = (logT - t0) / (t1 - t0);
+    if (fraction < 0) fraction = 0;
+    else if (fraction > 1) fraction = 1;
+    const v = logVoltageNorm[j] + (logVoltageNorm[j + 1] - logVoltageNorm[j]) * fraction;
+    g.u[gathered] = v * v;
+    g.centred[gathered] = intensity[k];
+    sumI += intensity[k];
+    gathered++;
+  }
+  const meanI = sumI / gathered;
   let sumSquaresI = 0;
+  for (let k = 0; k < gathered; k++) {
+    const c = g.centred[k] - meanI;
+    g.centred[k] = c;
+    sumSquaresI += c * c;
+  }
+  g.count = gathered;
+  g.sumSquaresI = sumSquaresI;
+  return gathered;
+}
 
-  /** First index with frameTimesS[index] ≥ t (lower bound). */
-  const lowerBound = (t: number): number => {
-    let lo = 0;
-    let hi = frameCount;
-    while (lo < hi) {
-      const mid = (lo + hi) >>> 1;
-      if (frameTimesS[mid] < t) lo = mid + 1;
-      else hi = mid;
-    }
-    return lo;
-  };
-  /** First index with frameTimesS[index] > t (upper bound). */
-  const upperBound = (t: number): number => {
-    let lo = 0;
-    let hi = frameCount;
-    while (lo < hi) {
-      const mid = (lo + hi) >>> 1;
-      if (frameTimesS[mid] <= t) lo = mid + 1;
-      else hi = mid;
-    }
-    return lo;
-  };
+/** R² = S_mI² / (S_mm · S_II) from the sums Σm, Σm², Σm·(I − Ī); 0 unless the slope is positive. */
+function rSquared(g: Gathered, sumM: number, sumMM: number, sumMI: number): number {
+  if (sumMI <= 0 || g.sumSquaresI <= 0) return 0;
+  const sMM = sumMM - (sumM * sumM) / g.count;
+  if (!(sMM > 1e-12 * g.count)) return 0;
+  return Math.min(1, (sumMI * sumMI) / (sMM * g.sumSquaresI));
+}
 
-  /** Index j of the log segment [t_j, t_j+1] holding log time t (clamped to the first and last segment). */
-  const logSegment = (t: number): number => {
-    let lo = 0;
-    let hi = logCount - 1;
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >>> 1;
-      if (logTimeS[mid] <= t) lo = mid;
-      else hi = mid;
-    }
-    return lo;
-  };
+/** R² for one V_π ratio with Math.sin. */
+function scoreExact(g: Gathered, vpiRatio: number): number {
+  if (g.count === 0) return 0;
+  const c = Math.PI / 2 / (vpiRatio * vpiRatio);
+  let sumM = 0;
+  let sumMM = 0;
+  let sumMI = 0;
+  for (let k = 0; k < g.count; k++) {
+    const s = Math.sin(c * g.u[k]);
+    const m = s * s;
+    sumM += m;
+    sumMM += m * m;
+    sumMI += m * g.centred[k];
+  }
+  return rSquared(g, sumM, sumMM, sumMI);
+}
 
-  const overlapFrames = (offsetS: number): number => upperBound(logEndS + offsetS) - lowerBound(logStartS + offsetS);
-
-  const gather = (offsetS: number): number => {
-    const first = lowerBound(logStartS + offsetS);
-    const end = upperBound(logEndS + offsetS);
-    gathered = 0;
-    if (end - first < minFrames) return 0;
-    // Two-pointer walk: frames and log samples are both in time order.
-    let j = logSegment(frameTimesS[first] - offsetS);
-    let sumI = 0;
-    for (let k = first; k < end; k++) {
-      const logT = frameTimesS[k] - offsetS;
-      while (j < logCount - 2 && logTimeS[j + 1] <= logT) j++;
-      const t0 = logTimeS[j];
-      const t1 = logTimeS[j + 1];
-      let fraction = (logT - t0) / (t1 - t0);
-      if (fraction < 0) fraction = 0;
-      else if (fraction > 1) fraction = 1;
-      const v = logVoltageNorm[j] + (logVoltageNorm[j + 1] - logVoltageNorm[j]) * fraction;
-      u[gathered] = v * v;
-      centred[gathered] = intensity[k];
-      sumI += intensity[k];
-      gathered++;
-    }
-    const meanI = sumI / gathered;
-    sumSquaresI = 0;
-    for (let k = 0; k < gathered; k++) {
-      const c = centred[k] - meanI;
-      centred[k] = c;
-      sumSquaresI += c * c;
-    }
-    return gathered;
-  };
-
-  const finish = (sumM: number, sumMM: number, sumMI: number): number => {
-    if (sumMI <= 0 || sumSquaresI <= 0) return 0;
-    const sMM = sumMM - (sumM * sumM) / gathered;
-    if (!(sMM > 1e-12 * gathered)) return 0;
-    return Math.min(1, (sumMI * sumMI) / (sMM * sumSquaresI));
-  };
-
-  const score = (vpiRatio: number): number => {
-    if (gathered === 0) return 0;
-    const c = Math.PI / 2 / (vpiRatio * vpiRatio);
+/** Best R² over the V_π ratios with the tabulated sin², and the index of the best ratio (0 when none scores). */
+function scoreTabulated(g: Gathered, vpiRatios: Float64Array): { score: number; index: number } {
+  let best = 0;
+  let index = 0;
+  if (g.count === 0) return { score: 0, index };
+  for (let r = 0; r < vpiRatios.length; r++) {
+    // sin²(x) is tabulated over one period π: x·TABLE_SIZE/π = c·u·TABLE_SIZE/π.
+    const c = ((Math.PI / 2 / (vpiRatios[r] * vpiRatios[r])) * TABLE_SIZE) / Math.PI;
     let sumM = 0;
     let sumMM = 0;
     let sumMI = 0;
-    for (let k = 0; k < gathered; k++) {
-      const s = Math.sin(c * u[k]);
-      const m = s * s;
+    for (let k = 0; k < g.count; k++) {
+      const x = c * g.u[k];
+      const whole = Math.floor(x);
+      const j = whole & (TABLE_SIZE - 1);
+      const m = SIN2_TABLE[j] + (SIN2_TABLE[j + 1] - SIN2_TABLE[j]) * (x - whole);
       sumM += m;
       sumMM += m * m;
-      sumMI += m * centred[k];
+      sumMI += m * g.centred[k];
     }
-    return finish(sumM, sumMM, sumMI);
-  };
-
-  const scoreGrid = (vpiRatios: Float64Array): { score: number; index: number } => {
-    let best = 0;
-    let index = 0;
-    if (gathered === 0) return { score: 0, index };
-    for (let g = 0; g < vpiRatios.length; g++) {
-      // sin²(x) is tabulated over one period π: x·TABLE_SIZE/π = c·u·TABLE_SIZE/π.
-      const c = ((Math.PI / 2 / (vpiRatios[g] * vpiRatios[g])) * TABLE_SIZE) / Math.PI;
-      let sumM = 0;
-      let sumMM = 0;
-      let sumMI = 0;
-      for (let k = 0; k < gathered; k++) {
-        const x = c * u[k];
-        const whole = Math.floor(x);
-        const j = whole & (TABLE_SIZE - 1);
-        const m = SIN2_TABLE[j] + (SIN2_TABLE[j + 1] - SIN2_TABLE[j]) * (x - whole);
-        sumM += m;
-        sumMM += m * m;
-        sumMI += m * centred[k];
-      }
-      const r2 = finish(sumM, sumMM, sumMI);
-      if (r2 > best) {
-        best = r2;
-        index = g;
-      }
+    const r2 = rSquared(g, sumM, sumMM, sumMI);
+    if (r2 > best) {
+      best = r2;
+      index = r;
     }
-    return { score: best, index };
-  };
-
-  return { gather, score, scoreGrid, overlapFrames, maxAbsVoltageV };
+  }
+  return { score: best, index };
 }

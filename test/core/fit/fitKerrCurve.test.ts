@@ -41,6 +41,23 @@ function expectWithin3Sigma(q: { value: number; stdErr?: number }, truth: number
   expect(Math.abs(q.value - truth), `${q.value} ± ${q.stdErr} vs ${truth}`).toBeLessThanOrEqual(3 * q.stdErr!);
 }
 
+describe('fitKerrCurve start loop (several V_π starts keep the fit on the right branch)', () => {
+  // A sweep to 1.8·V_π: T = sin²(π/2·(V/V_π)²) rises, peaks at V_π, falls and rises again, so a
+  // single start can settle on a wrong branch (DESIGN.md, "Identifiability"); the loop must keep
+  // the start of lowest residual. Data from the Jones product above (crossed at 45°), seeded noise.
+  it('recovers V_π within 3σ although some starts settle elsewhere, and reports every start', () => {
+    const voltageV = sweep(400, 1.8 * VPI_TRUE);
+    const noise = seededNormal(21);
+    const intensity = Float64Array.from(voltageV, (v) => 0.02 + 0.6 * jonesTransmission(45 * DEG, 135 * DEG, retardance(v)) + 0.004 * noise());
+    const fit = fitKerrCurve({ voltageV, intensity, effectiveLengthM: L_M, gapM: D_M, polariserAngleDeg: 45 });
+    expectWithin3Sigma(fit.halfWaveVoltage, VPI_TRUE);
+    expect(fit.startResults.length).toBe(fit.starts);
+    const bestRss = Math.min(...fit.startResults.map((s) => s.rss));
+    // Some starts end on another branch with a clearly larger residual: the choice mattered.
+    expect(fit.startResults.some((s) => s.rss > 2 * bestRss && Math.abs(s.halfWaveV / VPI_TRUE - 1) > 0.05)).toBe(true);
+  });
+});
+
 describe('fitKerrCurve', () => {
   it('the Jones product agrees with the closed form T = cos²(α−β) − sin2α·sin2β·sin²(δ/2)', () => {
     const rnd = seededRandom(3);

@@ -170,6 +170,12 @@ describe('findSyncOffset on synthetic traces made from the model', () => {
     const periods = Math.abs(result.runnerUp!.offsetS - result.offsetS) / 1.25;
     expect(Math.abs(periods - Math.round(periods))).toBeLessThan(0.05);
     expect(result.warnings.some((w) => w.includes('repeats'))).toBe(true);
+    // The finding as data: a code to sort by, the two offsets as facts, the message alongside.
+    const finding = result.syncWarnings.find((w) => w.code === 'sync-ambiguous');
+    expect(finding).toBeDefined();
+    expect(finding!.facts.offsetS).toBe(result.offsetS);
+    expect(finding!.facts.otherOffsetS).toBe(result.runnerUp!.offsetS);
+    expect(result.warnings).toEqual(result.syncWarnings.map((w) => w.message));
   });
 
   it('does not flag a single ramp as ambiguous', () => {
@@ -251,6 +257,9 @@ describe('findSyncOffset on synthetic traces made from the model', () => {
     const result = findSyncOffset(input);
     expect(result.sharpnessS === null || result.sharpnessS > 0.5).toBe(true);
     expect(result.warnings.some((w) => w.includes('poorly defined'))).toBe(true);
+    const broad = result.syncWarnings.find((w) => w.code === 'sync-broad-peak');
+    expect(broad?.facts.sharpnessS).toBe(result.sharpnessS);
+    for (const w of result.syncWarnings) expect(w.message).not.toMatch(/--[a-z]/);
   });
 
   it('keeps the search inside a given range', () => {
@@ -269,6 +278,8 @@ describe('findSyncOffset on synthetic traces made from the model', () => {
     expect(result.offsetS).toBeLessThanOrEqual(4);
     expect(Math.min(...result.curve.offsetS)).toBeGreaterThanOrEqual(2);
     expect(Math.max(...result.curve.offsetS)).toBeLessThanOrEqual(4);
+    // The true offset 0.5 s lies outside [2, 4]: the best inside sits at the edge, and says so.
+    expect(result.syncWarnings.map((w) => w.code)).toContain('sync-at-edge');
   });
 
   it('finds the offset of 2000 frames against a 100 Hz log (a long run) within a fifth of a frame', () => {
@@ -331,7 +342,9 @@ describe('findSyncOffset failures', () => {
     const err = caught as KerrError;
     expect(err.code).toBe('NO_OVERLAP');
     expect(err.message).toContain('the log covers 0–19.5 s and the video 0–19.9667 s');
-    expect(err.hint).toContain('--offset-s');
+    // Core messages name no command-line flag (the command line adds its own wording).
+    expect(err.hint).toContain('give the offset');
+    expect(`${err.message} ${err.hint}`).not.toMatch(/--[a-z]/);
   });
 
   it('throws NO_OVERLAP when the log is too short to hold 20 frames', () => {
