@@ -26,7 +26,7 @@
  *   // { range: 'limited', matrix: 'bt2020', transfer: 'hlg', clipCode: 250, notes: [] }
  */
 import { KerrError } from '../../errors.js';
-import type { CameraDecoding, TransferName, VideoInfo, YuvMatrix } from '../../media/types.js';
+import type { CameraDecoding, DecodingMetadata, TransferName, YuvMatrix } from './decodingTypes.js';
 
 export const DEFAULT_CLIP_CODE = 250;
 
@@ -36,7 +36,6 @@ export interface DecodingChoice extends CameraDecoding {
   notes: string[];
 }
 
-export type DecodingMetadata = Pick<VideoInfo, 'colourTransfer' | 'colourMatrix' | 'colourRange' | 'height'>;
 
 const TRANSFER_FROM_TAG: Record<string, TransferName> = {
   'iec61966-2-1': 'srgb',

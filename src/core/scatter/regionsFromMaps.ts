@@ -31,7 +31,7 @@
  * @example const r = regionsFromMaps(maps, { stepPx: 8 }); r.core.rect → { x: 152, y: 112, w: 24, h: 24 }
  */
 import { KerrError } from '../../errors.js';
-import type { Rect } from '../../media/types.js';
+import type { Rect } from '../regions/rect.js';
 import type { ModulationMaps } from './modulationMaps.js';
 import { cellBoxesOverlap, cellBoxToRect, floodFill, growCellBox, type CellBox } from '../regions/cellGeometry.js';
 
