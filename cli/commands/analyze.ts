@@ -12,6 +12,7 @@ import type { TransferName } from '../../src/media/types.js';
 import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
 import { summaryText } from '../summaryText.js';
+import { withFlags } from '../flagNames.js';
 
 export function parseNumber(text: string, option: string, what: string): number {
   const x = Number(text);
@@ -166,7 +167,7 @@ export function register(program: Command): void {
       }
       if (validity && !validity.valid) {
         // The run is written (marked not valid) so it can be inspected; its figures are not to be used.
-        throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => f.message).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/analyze.md, "Gates"` });
+        throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => withFlags(f.message, f.inputs)).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/analyze.md, "Gates"` });
       }
     }));
 }

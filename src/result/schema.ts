@@ -4,7 +4,8 @@
  * SI units; where a bare number is used its unit is in the field name.
  */
 import type { Quantity } from '../quantity.js';
-import type { Rect } from '../media/types.js';
+import type { Rect } from '../core/regions/rect.js';
+import type { InputName } from '../core/inputName.js';
 import type { UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
 /**
@@ -21,6 +22,8 @@ export interface RunGateFailure {
   /** Stable code, e.g. "residual-excess", "fit-not-converged", "sync-ambiguous". */
   gate: string;
   message: string;
+  /** The user's inputs the message asks to give or check (e.g. ["openLevel"]); absent when none. */
+  inputs?: InputName[];
 }
 
 export interface RunWarning {
@@ -29,6 +32,8 @@ export interface RunWarning {
   message: string;
   /** Anchor of the matching section in docs/recording-a-run.md, e.g. "lock-exposure". */
   guideSection?: string;
+  /** The user's inputs the message asks to give or check (e.g. ["gap", "length"]); absent when none. */
+  inputs?: InputName[];
 }
 
 export interface RunEvent {

@@ -211,8 +211,9 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   const angleFactor = Math.sin(2 * input.polariserAngleDeg * DEG) ** 2;
   if (angleFactor < 1e-6) {
     throw new KerrError('BAD_ARGUMENT', `a polariser angle of ${input.polariserAngleDeg}° to the field gives no modulation`, {
-      path: '--polariser-angle-deg',
+      path: 'polariserAngle',
       hint: 'Set the polariser at 45° to the field (the usual arrangement) or give the angle you used',
+      inputs: ['polariserAngle'],
     });
   }
   const staticRad = input.staticRetardanceRad ?? 0;
@@ -272,7 +273,8 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   }
   if (best === null) {
     throw new KerrError('FIT_FAILED', 'the Kerr fit did not converge from any start', {
-      hint: 'Check the beam region (--roi) and the voltage log; see docs/recording-a-run.md',
+      hint: 'Check the beam region and the voltage log; see docs/recording-a-run.md',
+      inputs: ['beamRegion'],
     });
   }
 

@@ -144,7 +144,8 @@ export function regionsFromMaps(maps: ModulationMaps, options: RegionsFromMapsOp
   const peakErr = peak >= 0 ? modulatedStdErr[peak]! : NaN;
   if (!(peakValue > 0) || !(peakValue > minPeakZ * (Number.isFinite(peakErr) ? peakErr : Infinity))) {
     throw new KerrError('BAD_REGION', 'no part of the modulated-light map stands clearly above noise, so the beam core could not be found on the maps', {
-      hint: 'Check that the beam is in view and the sweep opens the shutter; give --roi to measure a region you choose',
+      hint: 'Check that the beam is in view and the sweep opens the shutter, or give the beam region to measure one you choose',
+      inputs: ['beamRegion'],
     });
   }
 
