@@ -6,6 +6,10 @@
 import type { Quantity } from '../quantity.js';
 import type { Rect } from '../core/regions/rect.js';
 import type { InputName } from '../core/inputName.js';
+
+// The vocabularies of warnings and left-out frames (lists with meanings in their own files).
+export type { WarningCode } from './warningCode.js';
+export type { ExclusionReason } from './exclusionReason.js';
 import type { UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
 /**
@@ -27,7 +31,11 @@ export interface RunGateFailure {
 }
 
 export interface RunWarning {
-  /** Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable". */
+  /**
+   * Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable": one of
+   * `WarningCode` (src/result/warningCode.ts, with meanings). Typed `string` because a result read
+   * back from disk may hold any text; writers should build their codes as `WarningCode`.
+   */
   code: string;
   message: string;
   /** Anchor of the matching section in docs/recording-a-run.md, e.g. "lock-exposure". */
@@ -144,6 +152,7 @@ export interface RunResult {
     /** Agreement (e.g. R² of the model) against trial offset, for the report's sync plot. */
     curve: { offsetS: number[]; score: number[] };
   };
+  /** Frames counted by reason left out; keys are `ExclusionReason`s (src/result/exclusionReason.ts). */
   frames: { total: number; used: number; excluded: Record<string, number> };
   events: RunEvent[];
   log: { rows: number; spanS: number; currentColumn: boolean; temperatureC: Quantity | null };
@@ -205,5 +214,5 @@ export interface TraceRow {
   model: number | null;
   residual: number | null;
   used: boolean;
-  excludedReason: string | null; // "outside-log", "spark", "particle", "clipped", ...
+  excludedReason: string | null; // an ExclusionReason (src/result/exclusionReason.ts): "outside-log", "spark", "particle", "clipped", ...
 }

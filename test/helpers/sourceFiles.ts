@@ -94,3 +94,73 @@ export function propertyAccessesOf(file: string): { object: string; property: st
   visit(source);
   return found;
 }
+
+/** Lower-case, hyphenated words: the shape of warning codes and exclusion reasons. */
+const CODE_WORD = /^[a-z][a-z0-9]*(-[a-z0-9]+)*$/;
+
+function codeWordsIn(node: ts.Node): string[] {
+  const out: string[] = [];
+  const visit = (n: ts.Node): void => {
+    if ((ts.isStringLiteral(n) || ts.isNoSubstitutionTemplateLiteral(n)) && CODE_WORD.test(n.text)) out.push(n.text);
+    // only the value chosen, not strings used to decide it (e.g. a regex or a test in a condition)
+    if (ts.isConditionalExpression(n)) { visit(n.whenTrue); visit(n.whenFalse); return; }
+    if (ts.isBinaryExpression(n) && n.operatorToken.kind === ts.SyntaxKind.QuestionQuestionToken) { visit(n.right); return; }
+    if (ts.isParenthesizedExpression(n)) { visit(n.expression); return; }
+    // values produced per element: list.map((u) => (u === null ? null : 'unreadable'))
+    if (ts.isCallExpression(n)) { for (const arg of n.arguments) if (ts.isArrowFunction(arg) && !ts.isBlock(arg.body)) visit(arg.body); }
+  };
+  visit(node);
+  return out;
+}
+
+export interface CodeUse {
+  code: string;
+  file: string;
+  line: number;
+}
+
+/**
+ * Warning codes a file writes: the first argument of a call to a function named `warn`, and the
+ * value of a `code:` property (lower-case hyphenated words only; KerrError codes are upper case).
+ */
+export function warningCodesIn(file: string): CodeUse[] {
+  const source = parse(file);
+  const found: CodeUse[] = [];
+  const add = (node: ts.Node): void => {
+    const line = source.getLineAndCharacterOfPosition(node.getStart()).line + 1;
+    for (const code of codeWordsIn(node)) found.push({ code, file, line });
+  };
+  const visit = (node: ts.Node): void => {
+    if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === 'warn' && node.arguments[0]) add(node.arguments[0]);
+    if (ts.isPropertyAssignment(node) && node.name.getText(source) === 'code') add(node.initializer);
+    ts.forEachChild(node, visit);
+  };
+  visit(source);
+  return found;
+}
+
+/**
+ * Exclusion reasons a file assigns: values given to a variable, element or property whose name
+ * says excluded/reason (`excluded[f] = 'spark'`, `reason = 'clipped'`, `excludedReason: ...`,
+ * `preExcluded: ...`), and what a function named `reasonFor` returns.
+ */
+export function exclusionReasonsIn(file: string): CodeUse[] {
+  const source = parse(file);
+  const found: CodeUse[] = [];
+  const named = /exclu|^reason$|reasonFor/i;
+  const add = (node: ts.Node): void => {
+    const line = source.getLineAndCharacterOfPosition(node.getStart()).line + 1;
+    for (const code of codeWordsIn(node)) found.push({ code, file, line });
+  };
+  const targetName = (n: ts.Expression): string => (ts.isElementAccessExpression(n) ? targetName(n.expression) : ts.isPropertyAccessExpression(n) ? n.name.text : n.getText(source));
+  const visit = (node: ts.Node, inReasonFor: boolean): void => {
+    if (ts.isBinaryExpression(node) && node.operatorToken.kind === ts.SyntaxKind.EqualsToken && named.test(targetName(node.left))) add(node.right);
+    if (ts.isVariableDeclaration(node) && node.initializer && named.test(node.name.getText(source))) add(node.initializer);
+    if (ts.isPropertyAssignment(node) && /exclu/i.test(node.name.getText(source))) add(node.initializer);
+    if (inReasonFor && ts.isReturnStatement(node) && node.expression) add(node.expression);
+    const entering = ts.isFunctionDeclaration(node) && node.name?.text === 'reasonFor';
+    ts.forEachChild(node, (child) => visit(child, inReasonFor || entering));
+  };
+  visit(source, false);
+  return found;
+}
