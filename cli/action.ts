@@ -6,10 +6,12 @@
  *   4  an internal error: a bug in kerrtrace (one line asking for a report; KERRTRACE_DEBUG=1 shows the stack)
  *   5  the environment said no: permissions, read-only or full disk, closed or full stdout, link
  *      loops, too many open files (KerrError ENVIRONMENT, or a raw system error such as EACCES)
+ * The line names the options of the inputs the error refers to (cli/flagNames.ts).
  * 130/143 interrupted by SIGINT/SIGTERM (staging folders removed, earlier results kept).
  */
 import { isKerrError, type KerrError } from '../src/errors.js';
 import { environmentError } from '../src/io/environmentError.js';
+import { withFlags } from './flagNames.js';
 
 const INPUT_CODES = new Set([
   'BAD_ARGUMENT', 'FILE_NOT_FOUND', 'FILE_EXISTS', 'NOT_A_VIDEO', 'TRUNCATED_MEDIA', 'BAD_REGION',
@@ -37,7 +39,7 @@ export function exitCodeFor(err: KerrError): number {
 export function reportError(err: unknown): number {
   const known = isKerrError(err) ? err : environmentError(err);
   if (known) {
-    say(`kerrtrace: ${known.oneLine()}\n`);
+    say(`kerrtrace: ${withFlags(known.oneLine(), known.inputs)}\n`);
     if (process.env.KERRTRACE_DEBUG) say(`${(err as Error).stack ?? ''}\n`);
     return exitCodeFor(known);
   }

@@ -10,6 +10,7 @@
  */
 import { formatQuantity } from '../src/quantity.js';
 import type { RunResult } from '../src/result/schema.js';
+import { withFlags } from './flagNames.js';
 
 /** Width of the name column, so the values line up. */
 const NAME_WIDTH = 21;
@@ -46,8 +47,8 @@ export function summaryText(r: RunResult, dir: string): string {
     row('B by channel', `R ${formatQuantity(r.channels.r)}, G ${formatQuantity(r.channels.g)}, B ${formatQuantity(r.channels.b)}`);
     row('', `(${r.channels.note})`);
   }
-  for (const w of r.warnings) lines.push(`  warning: ${w.message}`);
-  if (r.validity && !r.validity.valid) for (const f of r.validity.failures) lines.push(`  NOT VALID (${f.gate}): ${f.message}`);
+  for (const w of r.warnings) lines.push(`  warning: ${withFlags(w.message, w.inputs)}`);
+  if (r.validity && !r.validity.valid) for (const f of r.validity.failures) lines.push(`  NOT VALID (${f.gate}): ${withFlags(f.message, f.inputs)}`);
   lines.push(`  files: ${dir}`);
   return `${lines.join('\n')}\n`;
 }

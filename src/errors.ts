@@ -1,8 +1,11 @@
 /**
  * One error shape for the whole tool. Library code throws `KerrError`; only the command line
  * turns it into a one-line message and an exit code. Errors are data: a code, an optional path
- * (file, option or field the problem concerns) and a hint saying what to do about it.
+ * (file, option or field the problem concerns), a hint saying what to do about it, and the inputs
+ * the hint refers to (neutral names; the command line adds its option names, cli/flagNames.ts).
  */
+import type { InputName } from './core/inputName.js';
+
 export type KerrErrorCode =
   | 'BAD_ARGUMENT' // an option or argument has the wrong form or value
   | 'FILE_NOT_FOUND'
@@ -32,6 +35,11 @@ export interface KerrErrorFields {
   hint?: string;
   /** Extra machine-readable facts (frames read, sizes...). */
   details?: Record<string, unknown>;
+  /**
+   * The user's inputs the message or hint asks to give or check ("give the beam region" →
+   * ['beamRegion']). The core words hints without option names; the command line names them.
+   */
+  inputs?: readonly InputName[];
 }
 
 export class KerrError extends Error {
@@ -39,6 +47,7 @@ export class KerrError extends Error {
   readonly path: string | undefined;
   readonly hint: string | undefined;
   readonly details: Record<string, unknown> | undefined;
+  readonly inputs: readonly InputName[];
 
   constructor(code: KerrErrorCode, message: string, fields: KerrErrorFields = {}) {
     super(message);
@@ -47,6 +56,7 @@ export class KerrError extends Error {
     this.path = fields.path;
     this.hint = fields.hint;
     this.details = fields.details;
+    this.inputs = fields.inputs ?? [];
   }
 
   /** The single line the command line prints: message, then the hint. */

@@ -10,6 +10,7 @@ import { makeProgress } from '../progress.js';
 import { toolVersionInfo } from '../versions.js';
 import { summaryText } from '../summaryText.js';
 import { parseNumberOption, parsePercentOption, parseRectOption, parseToleranceOption, parseTransferOption, parseWindowOption } from '../optionParsers.js';
+import { withFlags } from '../flagNames.js';
 
 export interface AnalyzeCliOptions {
   volts?: string; lengthMm?: string; gapMm?: string; out?: string; roi?: string; darkRoi?: string; referenceRoi?: string;
@@ -133,7 +134,7 @@ export function register(program: Command): void {
       }
       if (validity && !validity.valid) {
         // The run is written (marked not valid) so it can be inspected; its figures are not to be used.
-        throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => f.message).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/analyze.md, "Gates"` });
+        throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => withFlags(f.message, f.inputs)).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/analyze.md, "Gates"` });
       }
     }));
 }

@@ -1,7 +1,8 @@
 /**
  * Regions of interest given on the command line as "x,y,w,h": pixel column and row of the
  * top-left corner in the displayed frame (rotation applied, 0-based), then width and height in
- * pixels. `parseRect` checks the form, `validateRect` checks it against a frame size.
+ * pixels. `parseRect` checks the form; `validateRect` (src/core/regions/validateRect.ts, re-exported here)
+ * checks it against a frame size.
  *
  * @throws KerrError BAD_REGION: not four whole numbers, negative corner, zero or negative size,
  *   or (validateRect) reaching outside the frame; the message names the option and, for the
@@ -10,7 +11,10 @@
  * @example validateRect({ x: 300, y: 0, w: 40, h: 30 }, 320, 240, '--roi') // throws: reaches x = 340
  */
 import { KerrError, invalid } from '../errors.js';
-import type { Rect } from '../media/types.js';
+import type { Rect } from '../core/regions/rect.js';
+
+// The frame check lives in the core (pure geometry); re-exported for the callers that import it from here.
+export { validateRect } from '../core/regions/validateRect.js';
 
 const RECT_PATTERN = /^\s*(-?\d+)\s*,\s*(-?\d+)\s*,\s*(-?\d+)\s*,\s*(-?\d+)\s*$/;
 
@@ -30,28 +34,6 @@ export function parseRect(text: string, optionName: string): Rect {
       'x and y count pixels from the top-left corner of the frame', 'BAD_REGION');
   }
   return { x, y, w, h };
-}
-
-export function validateRect(rect: Rect, frameWidth: number, frameHeight: number, optionName: string): Rect {
-  const shown = `${rect.x},${rect.y},${rect.w},${rect.h}`;
-  const whole = [rect.x, rect.y, rect.w, rect.h].every(Number.isInteger);
-  if (!whole || rect.w <= 0 || rect.h <= 0) {
-    throw invalid('a region with whole-pixel corner and positive width and height', optionName, shown,
-      'Width and height must be at least 1 pixel', 'BAD_REGION');
-  }
-  const right = rect.x + rect.w;
-  const bottom = rect.y + rect.h;
-  if (rect.x < 0 || rect.y < 0 || right > frameWidth || bottom > frameHeight) {
-    const reach = right > frameWidth ? `reaches x = ${right}` : bottom > frameHeight ? `reaches y = ${bottom}` : 'starts before the frame';
-    throw new KerrError('BAD_REGION',
-      `region ${shown} for ${optionName} ${reach}, outside the ${frameWidth}x${frameHeight} frame`,
-      {
-        path: optionName,
-        hint: `Keep x+w ≤ ${frameWidth} and y+h ≤ ${frameHeight} (sizes as displayed, rotation applied; \`kerrtrace inspect\` prints them)`,
-        details: { rect, frameWidth, frameHeight },
-      });
-  }
-  return rect;
 }
 
 /** Smallest rectangle holding all the given ones. */

@@ -12,7 +12,7 @@
  * static/modulated maps; the numbers of the fit come from the regions, read pixel by pixel.
  * Buffers are REUSED from one frame to the next.
  */
-import { validateRect } from '../measure/rect.js';
+import { validateRect } from '../core/regions/validateRect.js';
 import { alignCrop, expectedFrameCount, rawPixelFormat, rawPixelFormat8 } from './frameStream.js';
 import type { ProbeResult } from './probe.js';
 import { rawBitDepth, runRawPipes, type RawPipesPlan } from './rawVideoPipes.js';

@@ -31,7 +31,7 @@
  * }
  */
 import { invalid } from '../errors.js';
-import { validateRect } from '../measure/rect.js';
+import { validateRect } from '../core/regions/validateRect.js';
 import type { ProbeResult } from './probe.js';
 import { plannedStream, type PlannedStream } from './plannedStream.js';
 import { rawBitDepth, yuv420FrameBytes, type RawPipesPlan, type RawPixelFormat } from './rawVideoPipes.js';

@@ -17,7 +17,7 @@
  * for await (const f of stream) console.log(f.index, f.timeS, f.regions[0].data[0]);
  */
 import { KerrError } from '../errors.js';
-import { validateRect } from '../measure/rect.js';
+import { validateRect } from '../core/regions/validateRect.js';
 import { alignCrop, expectedFrameCount, rawPixelFormat } from './frameStream.js';
 import type { ProbeResult } from './probe.js';
 import { plannedStream, type PlannedStream } from './plannedStream.js';

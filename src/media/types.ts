@@ -3,17 +3,11 @@
  * pipeline) codes against these.
  */
 
-/** Pixel rectangle in the displayed frame (rotation applied), top-left origin. */
-export interface Rect {
-  x: number;
-  y: number;
-  w: number;
-  h: number;
-}
+import type { ColourRange } from '../core/camera/decodingTypes.js';
 
-export type TransferName = 'srgb' | 'bt709' | 'linear' | 'hlg' | 'pq' | `gamma:${number}`;
-export type ColourRange = 'limited' | 'full';
-export type YuvMatrix = 'bt709' | 'bt601' | 'bt2020';
+// The geometry and decoding words belong to the core; re-exported here so the edges keep one import.
+export type { Rect } from '../core/regions/rect.js';
+export type { CameraDecoding, ColourRange, ResponseTable, TransferName, YuvMatrix } from '../core/camera/decodingTypes.js';
 
 /** What `probeVideo` learns about a file (the `inspect` command prints it). */
 export interface VideoInfo {
@@ -59,29 +53,6 @@ export interface Frame {
    * range 0..2^bitDepth − 1, so `data` holds twice as many bytes.
    */
   bitDepth?: number;
-}
-
-/** How code values become linear light: range expansion, YUV matrix, transfer inversion. */
-export interface CameraDecoding {
-  range: ColourRange;
-  matrix: YuvMatrix;
-  transfer: TransferName;
-  /** A code value (0-255, after range expansion, any R/G/B channel) at or above this counts as clipped. */
-  clipCode: number;
-  /**
-   * A measured camera response (from a camera profile, see src/core/camera/responseTable.ts): when
-   * present it replaces the transfer curve; `transfer` then only records what the tags said.
-   */
-  response?: ResponseTable;
-}
-
-/**
- * A camera response as a monotone table: R'G'B' code value (0..255 scale, after range expansion and
- * matrix) → relative linear light. Linear between entries, extended linearly beyond the ends.
- */
-export interface ResponseTable {
-  code: number[];
-  linear: number[];
 }
 
 /** Per-frame measurement of one region (linear units: 1.0 = full-scale white). */

@@ -4,7 +4,12 @@
  * SI units; where a bare number is used its unit is in the field name.
  */
 import type { Quantity } from '../quantity.js';
-import type { Rect } from '../media/types.js';
+import type { Rect } from '../core/regions/rect.js';
+import type { InputName } from '../core/inputName.js';
+
+// The vocabularies of warnings and left-out frames (lists with meanings in their own files).
+export type { WarningCode } from './warningCode.js';
+export type { ExclusionReason } from './exclusionReason.js';
 import type { UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
 /**
@@ -21,14 +26,22 @@ export interface RunGateFailure {
   /** Stable code, e.g. "residual-excess", "fit-not-converged", "sync-ambiguous". */
   gate: string;
   message: string;
+  /** The user's inputs the message asks to give or check (e.g. ["openLevel"]); absent when none. */
+  inputs?: InputName[];
 }
 
 export interface RunWarning {
-  /** Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable". */
+  /**
+   * Stable code, e.g. "exposure-drift", "clipping", "sync-ambiguous", "not-identifiable": one of
+   * `WarningCode` (src/result/warningCode.ts, with meanings). Typed `string` because a result read
+   * back from disk may hold any text; writers should build their codes as `WarningCode`.
+   */
   code: string;
   message: string;
   /** Anchor of the matching section in docs/recording-a-run.md, e.g. "lock-exposure". */
   guideSection?: string;
+  /** The user's inputs the message asks to give or check (e.g. ["gap", "length"]); absent when none. */
+  inputs?: InputName[];
 }
 
 export interface RunEvent {
@@ -139,6 +152,7 @@ export interface RunResult {
     /** Agreement (e.g. R² of the model) against trial offset, for the report's sync plot. */
     curve: { offsetS: number[]; score: number[] };
   };
+  /** Frames counted by reason left out; keys are `ExclusionReason`s (src/result/exclusionReason.ts). */
   frames: { total: number; used: number; excluded: Record<string, number> };
   events: RunEvent[];
   log: { rows: number; spanS: number; currentColumn: boolean; temperatureC: Quantity | null };
@@ -200,5 +214,5 @@ export interface TraceRow {
   model: number | null;
   residual: number | null;
   used: boolean;
-  excludedReason: string | null; // "outside-log", "spark", "particle", "clipped", ...
+  excludedReason: string | null; // an ExclusionReason (src/result/exclusionReason.ts): "outside-log", "spark", "particle", "clipped", ...
 }

@@ -24,6 +24,15 @@ describe('summaryText', () => {
     for (const l of lines(text).slice(1, 7)) expect(l).toMatch(/^ {2}\S.{20}\S/);
   });
 
+  it('names the options of the inputs a warning or a failed gate asks for (cli/flagNames.ts)', () => {
+    const { result } = buildRunFixture();
+    result.warnings = [{ code: 'implausible-kerr-constant', message: 'B is far outside the table; check the cell\'s length and gap', inputs: ['length', 'gap'] }];
+    result.validity = { valid: false, failures: [{ gate: 'sync-ambiguous', message: 'two offsets fit; give the sync offset', inputs: ['syncOffset'] }] };
+    const text = summaryText(result, 'd');
+    expect(text).toContain("  warning: B is far outside the table; check the cell's length and gap (--length-mm; --gap-mm)\n");
+    expect(text).toContain('  NOT VALID (sync-ambiguous): two offsets fit; give the sync offset (--offset-s)\n');
+  });
+
   it('marks an offset given with --offset-s', () => {
     const { result } = buildRunFixture();
     result.sync.manual = true;

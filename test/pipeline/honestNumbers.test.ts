@@ -137,7 +137,7 @@ describe('issue 12: honest numbers on simulated runs', () => {
   it('refuses a reference region on the beam (it would "correct" exposure with the signal)', async () => {
     const { dir, truth } = await render('refonbeam', scenario(38, triangle, { sampleRateHz: 10, clockOffsetS: 0 }));
     const r = truth.roi;
-    await expect(analyzeRun({ ...options(dir, r), referenceRoi: { x: r[0]! + 4, y: r[1]! + 4, w: 12, h: 12 } }, hooks)).rejects.toThrow(/--reference-roi .* overlaps the beam region/);
+    await expect(analyzeRun({ ...options(dir, r), referenceRoi: { x: r[0]! + 4, y: r[1]! + 4, w: 12, h: 12 } }, hooks)).rejects.toThrow(/the reference region .* overlaps the beam region/);
   }, 60_000);
 
   it('refuses a length or gap in the wrong unit (--length-mm 1e9, --gap-mm 1e-9)', () => {

@@ -26,7 +26,7 @@
  *   // { range: 'limited', matrix: 'bt2020', transfer: 'hlg', clipCode: 250, notes: [] }
  */
 import { KerrError } from '../../errors.js';
-import type { CameraDecoding, TransferName, VideoInfo, YuvMatrix } from '../../media/types.js';
+import type { CameraDecoding, DecodingMetadata, TransferName, YuvMatrix } from './decodingTypes.js';
 
 export const DEFAULT_CLIP_CODE = 250;
 
@@ -36,7 +36,6 @@ export interface DecodingChoice extends CameraDecoding {
   notes: string[];
 }
 
-export type DecodingMetadata = Pick<VideoInfo, 'colourTransfer' | 'colourMatrix' | 'colourRange' | 'height'>;
 
 const TRANSFER_FROM_TAG: Record<string, TransferName> = {
   'iec61966-2-1': 'srgb',
@@ -65,17 +64,21 @@ const MATRIX_FROM_TAG: Record<string, YuvMatrix> = {
 /** Tags that mean "not said" rather than "something else". */
 const UNTAGGED = new Set(['unknown', 'unspecified', 'reserved', '']);
 
-/** Options that let the user get past a refused encoding: named in the refusal's hint. */
+/**
+ * How the caller names the two ways past a refused encoding in notes and hints (plain words by
+ * default; the refusal also lists them as inputs `transfer` and `cameraProfile`).
+ */
 export interface DecodingEscapes {
-  /** How the user names the transfer override and the profile option (for the hint). */
+  /** Default "the transfer curve". */
   transferOption?: string;
+  /** Default "a camera profile". */
   profileOption?: string;
 }
 
 export function decodingFor(info: DecodingMetadata, overrides: Partial<CameraDecoding> = {}, escapes: DecodingEscapes = {}): DecodingChoice {
   const notes: string[] = [];
-  const transferOption = escapes.transferOption ?? '--transfer';
-  const profileOption = escapes.profileOption ?? '--camera-profile';
+  const transferOption = escapes.transferOption ?? 'the transfer curve';
+  const profileOption = escapes.profileOption ?? 'a camera profile';
 
   let transfer: TransferName;
   if (overrides.transfer !== undefined) {
@@ -86,13 +89,14 @@ export function decodingFor(info: DecodingMetadata, overrides: Partial<CameraDec
       transfer = tagged;
     } else if (UNTAGGED.has(info.colourTransfer)) {
       transfer = 'srgb';
-      notes.push(`the video does not say its transfer function (color_transfer ${info.colourTransfer}); assuming srgb. Pass ${transferOption} if your camera uses another curve`);
+      notes.push(`the video does not say its transfer function (color_transfer ${info.colourTransfer}); assuming srgb. Give ${transferOption} if your camera uses another curve`);
     } else if (overrides.response !== undefined) {
       transfer = 'linear'; // the measured response replaces the curve; the tag is only recorded
       notes.push(`the video's transfer (color_transfer ${info.colourTransfer}) is not one kerrtrace decodes; the measured camera response is used instead`);
     } else {
       throw new KerrError('UNSUPPORTED_ENCODING', `the video's transfer function (color_transfer ${info.colourTransfer}) is not one kerrtrace can decode`, {
-        hint: `Record with HDR and log modes off (see docs/camera-response.md), or give ${profileOption} from a calibration recording, or ${transferOption} if you know the curve`,
+        hint: `Record with HDR and log modes off (see docs/camera-response.md), or give ${profileOption} from a calibration recording, or ${transferOption} if you know it`,
+        inputs: ['cameraProfile', 'transfer'],
         details: { colourTransfer: info.colourTransfer },
       });
     }

@@ -16,7 +16,7 @@
  * @example fitResponseTable([10, 80, 200], [0, 0.3, 1], 3) // { table: { code: [10, 80, 200], linear: [0, 0.3, 1] }, residualRms: 0, ... }
  */
 import { KerrError } from '../../errors.js';
-import type { ResponseTable } from '../../media/types.js';
+import type { ResponseTable } from './decodingTypes.js';
 import { responseAt } from './responseTable.js';
 
 export interface ResponseTableFit {

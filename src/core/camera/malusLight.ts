@@ -128,7 +128,8 @@ export function lightFromSteadyRotation(timesS: ArrayLike<number>, codes: ArrayL
   const medianPower = sorted[sorted.length >> 1]!;
   if (!(bestP > 4 * medianPower)) {
     throw new KerrError('NOT_IDENTIFIABLE', 'no steady rotation found in the calibration clip (no period stands out)', {
-      hint: 'Turn the analyser steadily for at least two full turns, or give the angles with --angles',
+      hint: 'Turn the analyser steadily for at least two full turns, or give the analyser angles',
+      inputs: ['analyserAngles'],
     });
   }
   // golden-section refinement within ±df: largest share of the codes explained by the two-harmonic

@@ -15,7 +15,7 @@
  * @example responseAt({ code: [0, 128, 255], linear: [0, 0.2, 1] }, 64) // 0.1
  */
 import { KerrError } from '../../errors.js';
-import type { ResponseTable } from '../../media/types.js';
+import type { ResponseTable } from './decodingTypes.js';
 
 /** Checks a table's shape; returns it. */
 export function checkResponseTable(table: ResponseTable, where = 'the camera profile'): ResponseTable {

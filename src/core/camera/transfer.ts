@@ -27,7 +27,7 @@
  * @example parseTransfer('gamma:2.2', '--transfer') // 'gamma:2.2'
  */
 import { invalid } from '../../errors.js';
-import type { TransferName } from '../../media/types.js';
+import type { TransferName } from './decodingTypes.js';
 
 const clamp01 = (v: number): number => (v <= 0 ? 0 : v >= 1 ? 1 : v);
 

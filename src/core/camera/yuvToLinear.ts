@@ -27,7 +27,7 @@
  * const out = new Float64Array(6);
  * decodePixel(t, 126, 128, 128, out); // out[0..2] ≈ 128 (codes), out[3..5] ≈ 0.2159 (linear)
  */
-import type { CameraDecoding, YuvMatrix } from '../../media/types.js';
+import type { CameraDecoding, YuvMatrix } from './decodingTypes.js';
 import { responseLut } from './responseTable.js';
 import { transferLut } from './transfer.js';
 

@@ -28,6 +28,7 @@
  *   polariserAngleDeg: 45, effectiveLengthM: 0.05, gapM: 0.005, kerrConstant: 2.4e-12, kerrStdErr: 1e-14, errorInflation: 1.5 })
  */
 import { levenbergMarquardt, type CurveModel } from './levenbergMarquardt.js';
+import { modulationTerm, polariserAngleFactor } from '../physics/modulationTerm.js';
 
 export interface ResponseCheckInput {
   voltageV: Float64Array;
@@ -92,7 +93,7 @@ export const PRIOR_GAMMA_STD_ERR = 0.02;
  * at 1 + u and 1 − u (u = PRIOR_GAMMA_STD_ERR), u(B) = |B₊ − B₋|/2 (GUM §5.1.3, a central
  * difference for the sensitivity coefficient times u(γ)). null when either refit fails.
  */
-function priorSensitivity(input: ResponseCheckInput, x: Float64Array, y: Float64Array, angleFactor: number, halfStatic: number): number | null {
+function priorSensitivity(input: ResponseCheckInput, x: Float64Array, y: Float64Array, angleFactor: number, staticRad: number): number | null {
   if (x.length < 20) return null;
   const vpi0 = input.fit.halfWaveVoltageV;
   const phi0 = Math.max(1e-4, input.fit.floor / input.fit.amplitude);
@@ -101,8 +102,7 @@ function priorSensitivity(input: ResponseCheckInput, x: Float64Array, y: Float64
     const model: CurveModel = {
       nParams: 3,
       value(p, v) {
-        const s = Math.sin((Math.PI / 2) * (v / p[2]!) * (v / p[2]!) + halfStatic);
-        const base = p[1]! + angleFactor * s * s;
+        const base = p[1]! + modulationTerm(v, p[2]!, angleFactor, staticRad);
         return p[0]! * Math.pow(base > 1e-12 ? base : 1e-12, kappa);
       },
     };
@@ -125,8 +125,8 @@ function priorSensitivity(input: ResponseCheckInput, x: Float64Array, y: Float64
 
 export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const { voltageV, intensity, used, fit } = input;
-  const angleFactor = Math.sin((2 * input.polariserAngleDeg * Math.PI) / 180) ** 2;
-  const halfStatic = (input.staticRetardanceRad ?? 0) / 2;
+  const angleFactor = polariserAngleFactor(input.polariserAngleDeg);
+  const staticRad = input.staticRetardanceRad ?? 0;
   if (!(fit.amplitude > 0) || !(fit.halfWaveVoltageV > 0)) return skipped('the main fit has no positive amplitude');
   let vMax = 0;
   const xs: number[] = [];
@@ -141,7 +141,7 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const haveOpen = input.openLevel !== undefined && input.openLevel > 0;
   if (reach < 0.8 && !haveOpen) {
     const reason = `the sweep reaches ${(reach * 100).toFixed(0)} % of the half-wave voltage and no open level is known, so the response cannot be told from the half-wave voltage`;
-    const prior = priorSensitivity(input, Float64Array.from(xs), Float64Array.from(ys), angleFactor, halfStatic);
+    const prior = priorSensitivity(input, Float64Array.from(xs), Float64Array.from(ys), angleFactor, staticRad);
     if (prior === null) return skipped(`${reason}; B could not be refitted at γ = 1 ± ${PRIOR_GAMMA_STD_ERR}`);
     return {
       ...skipped(`${reason}: the camera-response term is B's sensitivity to γ = 1 ± ${PRIOR_GAMMA_STD_ERR} (prior)`),
@@ -166,8 +166,7 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
       let u: number;
       if (v === OPEN_POINT) u = 1;
       else {
-        const s = Math.sin((Math.PI / 2) * (v / p[3]!) * (v / p[3]!) + halfStatic);
-        u = angleFactor * s * s;
+        u = modulationTerm(v, p[3]!, angleFactor, staticRad);
       }
       const base = p[1]! + u;
       return p[0]! * Math.pow(base > 1e-12 ? base : 1e-12, p[2]!);

@@ -23,6 +23,7 @@
  * decide (the result carries `identifiable`).
  */
 import { KerrError } from '../../errors.js';
+import { modulationTerm, modulationTermSlopeHalfWave, polariserAngleFactor } from '../physics/modulationTerm.js';
 import { quantity, type Quantity } from '../../quantity.js';
 import { levenbergMarquardt, type CurveModel, type LmResult } from './levenbergMarquardt.js';
 import { fitRobust } from './robustFit.js';
@@ -96,7 +97,6 @@ export interface FitStart {
   halfWaveV: number;
 }
 
-const DEG = Math.PI / 180;
 
 /**
  * Whether start result a beats b. Same status: the lower residual. A start that did not converge
@@ -110,43 +110,32 @@ function betterStart(a: LmResult, b: LmResult): boolean {
   return a.converged ? a.rss <= b.rss * (1 + UNCONVERGED_MARGIN) : a.rss < b.rss * (1 - UNCONVERGED_MARGIN);
 }
 
-/** sin²(2θ) factor and static retardance folded into a model with parameters [floor, amp, vpi] or [floor, vpi]. */
+/**
+ * I = floor + amp·T(V) with T the modulation term (sin²(2θ) factor and static retardance folded
+ * in, physics/modulationTerm.ts), parameters [floor, amp, vpi] or [floor, vpi].
+ */
 function makeModel(angleFactor: number, staticRad: number, fixedAmp: number | null): CurveModel {
-  const halfStatic = staticRad / 2;
   if (fixedAmp === null) {
     return {
       nParams: 3,
       value(p, v) {
-        const u = (Math.PI / 2) * (v / p[2]!) * (v / p[2]!) + halfStatic;
-        const s = Math.sin(u);
-        return p[0]! + p[1]! * angleFactor * s * s;
+        return p[0]! + modulationTerm(v, p[2]!, p[1]! * angleFactor, staticRad);
       },
       gradient(p, v, out) {
-        const vpi = p[2]!;
-        const u = (Math.PI / 2) * (v / vpi) * (v / vpi) + halfStatic;
-        const s = Math.sin(u);
-        const c = Math.cos(u);
         out[0] = 1;
-        out[1] = angleFactor * s * s;
-        // du/dVπ = −π·V²/Vπ³
-        out[2] = p[1]! * angleFactor * 2 * s * c * (-Math.PI * v * v / (vpi * vpi * vpi));
+        out[1] = modulationTerm(v, p[2]!, angleFactor, staticRad);
+        out[2] = modulationTermSlopeHalfWave(v, p[2]!, p[1]! * angleFactor, staticRad);
       },
     };
   }
   return {
     nParams: 2,
     value(p, v) {
-      const u = (Math.PI / 2) * (v / p[1]!) * (v / p[1]!) + halfStatic;
-      const s = Math.sin(u);
-      return p[0]! + fixedAmp * angleFactor * s * s;
+      return p[0]! + modulationTerm(v, p[1]!, fixedAmp * angleFactor, staticRad);
     },
     gradient(p, v, out) {
-      const vpi = p[1]!;
-      const u = (Math.PI / 2) * (v / vpi) * (v / vpi) + halfStatic;
-      const s = Math.sin(u);
-      const c = Math.cos(u);
       out[0] = 1;
-      out[1] = fixedAmp * angleFactor * 2 * s * c * (-Math.PI * v * v / (vpi * vpi * vpi));
+      out[1] = modulationTermSlopeHalfWave(v, p[1]!, fixedAmp * angleFactor, staticRad);
     },
   };
 }
@@ -208,11 +197,12 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   const { voltageV, intensity, effectiveLengthM, gapM } = input;
   const n = voltageV.length;
   if (n !== intensity.length) throw new KerrError('INTERNAL', 'voltage and intensity series differ in length');
-  const angleFactor = Math.sin(2 * input.polariserAngleDeg * DEG) ** 2;
+  const angleFactor = polariserAngleFactor(input.polariserAngleDeg);
   if (angleFactor < 1e-6) {
     throw new KerrError('BAD_ARGUMENT', `a polariser angle of ${input.polariserAngleDeg}° to the field gives no modulation`, {
-      path: '--polariser-angle-deg',
+      path: 'polariserAngle',
       hint: 'Set the polariser at 45° to the field (the usual arrangement) or give the angle you used',
+      inputs: ['polariserAngle'],
     });
   }
   const staticRad = input.staticRetardanceRad ?? 0;
@@ -246,8 +236,7 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   const startResults: FitStart[] = [];
   for (const vpi of guesses) {
     for (let i = 0; i < n; i++) {
-      const s = Math.sin((Math.PI / 2) * (voltageV[i]! / vpi) ** 2 + staticRad / 2);
-      basis[i] = angleFactor * s * s;
+      basis[i] = modulationTerm(voltageV[i]!, vpi, angleFactor, staticRad);
     }
     let start: number[];
     if (fixedAmp === null) {
@@ -272,7 +261,8 @@ export function fitKerrCurve(input: KerrCurveInput): KerrCurveFit {
   }
   if (best === null) {
     throw new KerrError('FIT_FAILED', 'the Kerr fit did not converge from any start', {
-      hint: 'Check the beam region (--roi) and the voltage log; see docs/recording-a-run.md',
+      hint: 'Check the beam region and the voltage log; see docs/recording-a-run.md',
+      inputs: ['beamRegion'],
     });
   }
 

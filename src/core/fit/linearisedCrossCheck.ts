@@ -1,5 +1,6 @@
 import { isKerrError, invalid } from '../../errors.js';
 import type { Quantity } from '../../quantity.js';
+import { polariserAngleFactor } from '../physics/modulationTerm.js';
 import { linearisedKerr } from './linearisedKerr.js';
 
 export interface LinearisedCrossCheckInput {
@@ -83,7 +84,7 @@ export function linearisedCrossCheck(input: LinearisedCrossCheckInput): Linearis
   if (outliers !== undefined && outliers.length !== voltageV.length) {
     throw invalid(`one outlier flag per voltage (${voltageV.length})`, 'outliers', `${outliers.length} values`);
   }
-  const angleFactor = Math.sin((2 * input.polariserAngleDeg * Math.PI) / 180) ** 2;
+  const angleFactor = polariserAngleFactor(input.polariserAngleDeg);
   if (!(input.amplitude > 0) || !Number.isFinite(input.amplitude) || !(angleFactor > MIN_ANGLE_FACTOR)) return null;
   if (!(input.halfWaveVoltageV > 0)) return null;
   const fullScale = input.amplitude * angleFactor;

@@ -25,6 +25,7 @@
  * Pure; throws nothing.
  */
 import type { RunGateFailure, RunWarning } from '../../result/schema.js';
+import type { InputName } from '../inputName.js';
 
 export const RESIDUAL_EXCESS_LIMIT = 4;
 export const STARVED_BITS_PER_PIXEL = 0.025;
@@ -60,25 +61,25 @@ export interface GateInput {
 export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: RunWarning[] } {
   const failures: RunGateFailure[] = [];
   const warnings: RunWarning[] = [];
-  const fail = (gate: string, message: string) => failures.push({ gate, message });
+  const fail = (gate: string, message: string, inputs?: InputName[]) => failures.push(inputs ? { gate, message, inputs } : { gate, message });
   if (![g.kerrConstant, g.kerrConstantStdErr, g.halfWaveVoltageV, g.halfWaveStdErrV].every(Number.isFinite)) {
     fail('figures-finite', 'the fit gave no finite Kerr constant or uncertainty');
   }
   if (!g.converged) fail('fit-not-converged', `the fit stopped without converging (${g.fitReason})`);
-  if (!g.identifiable) fail('not-identifiable', 'the sweep does not reach far enough to separate brightness from the half-wave voltage (which is therefore unknown); record an open level or sweep higher if the cell allows it');
+  if (!g.identifiable) fail('not-identifiable', 'the sweep does not reach far enough to separate brightness from the half-wave voltage (which is therefore unknown); record an open level or sweep higher if the cell allows it', ['openLevel']);
   if (g.identifiable && g.ampVpiCorrelation !== undefined && g.relStdErrB !== undefined && Math.abs(g.ampVpiCorrelation) > WEAK_REACH_CORRELATION && g.relStdErrB > WEAK_REACH_REL_ERROR) {
-    fail('weak-reach', `the sweep shows only the foot of the curve: brightness and half-wave voltage trade off (correlation ${g.ampVpiCorrelation.toFixed(3)}, B uncertain by ${(g.relStdErrB * 100).toFixed(0)} %), so the half-wave voltage is not measured; record an open level (--open-window, --open-video or --open-level) or sweep higher if the cell allows it`);
+    fail('weak-reach', `the sweep shows only the foot of the curve: brightness and half-wave voltage trade off (correlation ${g.ampVpiCorrelation.toFixed(3)}, B uncertain by ${(g.relStdErrB * 100).toFixed(0)} %), so the half-wave voltage is not measured; record an open level or sweep higher if the cell allows it`, ['openLevel']);
   }
   if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
   }
-  if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give --offset-s or record a drive without repeats');
+  if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give the sync offset or record a drive without repeats', ['syncOffset']);
   if (Number.isFinite(g.bitsPerPixel) && g.bitsPerPixel < STARVED_BITS_PER_PIXEL) {
     fail('compression-starved', `the clip holds only ${g.bitsPerPixel.toFixed(3)} bits per pixel per frame, so compression flattens the spot and delays its changes; record at a higher bitrate or quality setting`);
   }
   const [lo, hi] = g.plausibleRangeMPerV2;
   if (Number.isFinite(g.kerrConstant) && g.kerrConstant > 0 && (g.kerrConstant < lo / 10 || g.kerrConstant > hi * 10)) {
-    warnings.push({ code: 'implausible-kerr-constant', message: `B = ${g.kerrConstant.toExponential(2)} m/V² is more than 10× outside the range of the built-in liquid table (${lo.toExponential(1)}–${hi.toExponential(1)} m/V²); check the units of the log (V, kV) and of --length-mm and --gap-mm` });
+    warnings.push({ code: 'implausible-kerr-constant', message: `B = ${g.kerrConstant.toExponential(2)} m/V² is more than 10× outside the range of the built-in liquid table (${lo.toExponential(1)}–${hi.toExponential(1)} m/V²); check the units of the log (V, kV) and of the cell's length and gap`, inputs: ['length', 'gap'] });
   }
   return { failures, warnings };
 }

@@ -8,7 +8,7 @@
  *
  * @example cellBoxToRect({ x0: 2, y0: 1, x1: 3, y1: 1 }, 8) → { x: 16, y: 8, w: 16, h: 8 }
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from './rect.js';
 
 /** A box of blocks: inclusive block indices. */
 export interface CellBox {

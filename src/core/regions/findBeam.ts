@@ -42,7 +42,8 @@ export function findBeam(input: FindBeamInput): BeamCells {
   for (let f = 0; f < frames; f += stride) if (!input.usable || input.usable[f]) chosen.push(f);
   if (chosen.length < 5) {
     throw new KerrError('BAD_REGION', `only ${chosen.length} usable frames to look for the beam in`, {
-      hint: 'Give the beam region with --roi x,y,w,h',
+      hint: 'Give the beam region as x,y,w,h',
+      inputs: ['beamRegion'],
     });
   }
   const rangeMap = new Float32Array(cells);
@@ -59,7 +60,8 @@ export function findBeam(input: FindBeamInput): BeamCells {
   const peakRange = rangeMap[peak]!;
   if (!(peakRange > 0) || peakRange < 4 * medianRange + 1e-4) {
     throw new KerrError('BAD_REGION', 'no part of the frame brightens and darkens clearly with the drive, so the beam could not be found automatically', {
-      hint: 'Give the beam region with --roi x,y,w,h (see `kerrtrace trace` to check a region)',
+      hint: 'Give the beam region as x,y,w,h (see `kerrtrace trace` to check a region)',
+      inputs: ['beamRegion'],
     });
   }
   const { box } = floodFill(rangeMap, gw, gh, peak, threshold * peakRange);

@@ -10,7 +10,7 @@
  * fraction is unchanged by it.
  * Pure. Rectangles are in pixels, inner ⊂ outer; r² is measured from the beam rectangle's centre.
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from './rect.js';
 
 /** Pixel count and sum of squared distances (from (cx, cy), pixel centres) over a rectangle. */
 export function rectMoments(r: Rect, cx: number, cy: number): { count: number; sumR2: number } {

@@ -4,7 +4,7 @@
  * every pixel of rₙ once; the sums of the nested rectangles are cumulative sums of the pieces.
  * Pure. Throws nothing; empty strips are left out. `ringOf[i]` is the chain index of piece i.
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from './rect.js';
 
 export function nestedPieces(chain: readonly Rect[]): { pieces: Rect[]; ringOf: number[] } {
   const pieces: Rect[] = [];

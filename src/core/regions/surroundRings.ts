@@ -7,7 +7,7 @@
  * Pure; throws nothing.
  * @example surroundRings({ x: 100, y: 80, w: 40, h: 40 }, 320, 240).a0 → { x: 94, y: 74, w: 52, h: 52 }
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from './rect.js';
 import type { SurroundGeometry } from './localSurround.js';
 
 /** r grown by `byPx` on every side, clipped to a frame of w × h. */

@@ -7,7 +7,7 @@
  *
  * Both are fractions of the modulation amplitude I_amp (dimensionless), so the two runs may use
  * different exposures. The difference can come out slightly negative within its error when the
- * liquid adds nothing. Pure. Throws KerrError BAD_RESULT (path --baseline) when the baseline's
+ * liquid adds nothing. Pure. Throws KerrError BAD_RESULT (path and input `baseline`) when the baseline's
  * floor fraction is missing or not a finite number.
  * @example baselineFloor(quantity(0.012, 0.001), quantity(0.004, 0.0005))
  *   → { polariserLeakFraction: 0.004 ± 0.0005, scatterFloorFraction: 0.008 ± 0.0011 }
@@ -23,8 +23,9 @@ export interface BaselineFloor {
 export function baselineFloor(runFloorFraction: Quantity, baselineFloorFraction: Quantity | undefined): BaselineFloor {
   if (!baselineFloorFraction || !Number.isFinite(baselineFloorFraction.value)) {
     throw new KerrError('BAD_RESULT', `the baseline result has no usable floor fraction (${baselineFloorFraction ? String(baselineFloorFraction.value) : 'missing'})`, {
-      path: '--baseline',
+      path: 'baseline',
       hint: 'Give the result.json of a baseline run that kerrtrace analysed completely',
+      inputs: ['baseline'],
     });
   }
   const runErr = runFloorFraction.stdErr;

@@ -37,7 +37,7 @@
  *   terms: [{ rect: { x: 96, y: 64, w: 32, h: 32 }, weight: 1 }], intensity, modulation, usable })
  *   → { scale: 1.62, stdErr: 0.004, beamSlope: 0.061, gridSlope: 0.0377 }
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from '../regions/rect.js';
 
 export interface GridLuminanceScaleInput {
   modulatedMap: Float32Array;

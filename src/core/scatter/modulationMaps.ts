@@ -100,7 +100,8 @@ export function modulationMaps(input: ModulationMapsInput): ModulationMaps {
   for (const f of chosen) sxx += (modulation[f]! - xMean) ** 2;
   if (n < 3 || !(sxx > 1e-12 * n) || !(xMax - xMin > 1e-6)) {
     throw new KerrError('NOT_IDENTIFIABLE', `the modulation term varies too little over the ${n} frames used (span ${Number.isFinite(xMax - xMin) ? (xMax - xMin).toPrecision(2) : 0}) to separate static from modulated light`, {
-      hint: 'Record a sweep that opens the shutter noticeably, or give the beam region with --roi',
+      hint: 'Record a sweep that opens the shutter noticeably, or give the beam region',
+      inputs: ['beamRegion'],
     });
   }
 

@@ -10,7 +10,7 @@
  * Pure; throws nothing.
  * @example referenceGain(grid, 300, 40, 30, 8, { x: 16, y: 16, w: 32, h: 32 })?.[0] → 1.02
  */
-import type { Rect } from '../../media/types.js';
+import type { Rect } from '../regions/rect.js';
 import { median } from '../fit/robustScale.js';
 import { boxSeries } from './boxSeries.js';
 import { rectToCellBox } from '../regions/cellGeometry.js';

@@ -31,7 +31,7 @@
  * @example const r = regionsFromMaps(maps, { stepPx: 8 }); r.core.rect → { x: 152, y: 112, w: 24, h: 24 }
  */
 import { KerrError } from '../../errors.js';
-import type { Rect } from '../../media/types.js';
+import type { Rect } from '../regions/rect.js';
 import type { ModulationMaps } from './modulationMaps.js';
 import { cellBoxesOverlap, cellBoxToRect, floodFill, growCellBox, type CellBox } from '../regions/cellGeometry.js';
 
@@ -144,7 +144,8 @@ export function regionsFromMaps(maps: ModulationMaps, options: RegionsFromMapsOp
   const peakErr = peak >= 0 ? modulatedStdErr[peak]! : NaN;
   if (!(peakValue > 0) || !(peakValue > minPeakZ * (Number.isFinite(peakErr) ? peakErr : Infinity))) {
     throw new KerrError('BAD_REGION', 'no part of the modulated-light map stands clearly above noise, so the beam core could not be found on the maps', {
-      hint: 'Check that the beam is in view and the sweep opens the shutter; give --roi to measure a region you choose',
+      hint: 'Check that the beam is in view and the sweep opens the shutter, or give the beam region to measure one you choose',
+      inputs: ['beamRegion'],
     });
   }
 

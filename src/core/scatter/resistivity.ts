@@ -57,7 +57,9 @@ export function liquidResistivity(input: ResistivityInput): Resistivity {
   const { voltageV, currentA, lengthM, electrodeHeightM, gapM } = input;
   if (currentA.length !== voltageV.length) throw new KerrError('INTERNAL', 'voltage and current columns must have one entry per log row');
   if (!(lengthM > 0)) throw invalid('a positive electrode length in m', 'lengthM', lengthM);
-  if (!(electrodeHeightM > 0)) throw invalid('a positive electrode height in mm', '--electrode-height-mm', electrodeHeightM * 1e3);
+  if (!(electrodeHeightM > 0)) {
+    throw new KerrError('BAD_ARGUMENT', `expected a positive electrode height but received ${electrodeHeightM * 1e3} mm`, { path: 'electrodeHeight', inputs: ['electrodeHeight'] });
+  }
   if (!(gapM > 0)) throw invalid('a positive gap in m', 'gapM', gapM);
   const withOffset = input.withOffset ?? true;
   const areaM2 = lengthM * electrodeHeightM;

@@ -41,6 +41,6 @@ export function checkLogUnits(i: LogUnitInput): void {
   let vMax = 0;
   for (const v of i.voltageV) if (Number.isFinite(v)) vMax = Math.max(vMax, Math.abs(v));
   if (vMax > MAX_VOLTAGE_V || vMax / i.gapM > MAX_FIELD_V_PER_M) {
-    throw new KerrError('BAD_CSV', `the voltage log ${i.file} reaches ${vMax.toExponential(2)} V, a field of ${(vMax / i.gapM / 1e6).toExponential(2)} kV/mm across the gap: no liquid holds that`, { path: i.file, hint: 'Check the voltage unit (name the column voltage_kV or voltage_mV) and --gap-mm' });
+    throw new KerrError('BAD_CSV', `the voltage log ${i.file} reaches ${vMax.toExponential(2)} V, a field of ${(vMax / i.gapM / 1e6).toExponential(2)} kV/mm across the gap: no liquid holds that`, { path: i.file, hint: 'Check the voltage unit (name the column voltage_kV or voltage_mV) and the electrode gap', inputs: ['gap'] });
   }
 }

@@ -27,6 +27,7 @@ export function checkDriveModulates(logVoltageV: Float64Array, minDriveV: number
     throw new KerrError('NOT_IDENTIFIABLE', `the log holds a single voltage level (about ${roundTo(Math.sqrt(highSq), 3)} V), so the video cannot be synchronised with it`, {
       path: 'log',
       hint: 'record a ramp or steps while filming, or give the offset',
+      inputs: ['syncOffset'],
     });
   }
 }

@@ -169,6 +169,7 @@ function bestCoarseIndex(coarse: CoarseCurve, grid: OffsetGrid): number {
     throw new KerrError('NOT_IDENTIFIABLE', 'the beam intensity does not rise with the modelled Kerr transmission at any offset, so the video cannot be synchronised with the log', {
       path: 'sync',
       hint: 'check that the region covers the beam, that the polarisers are crossed and that the log belongs to this video, or give the offset',
+      inputs: ['syncOffset'],
     });
   }
   return bestIndex;

@@ -63,6 +63,7 @@ function noOverlapError(input: OffsetGridInput, required: number, why: string): 
   return new KerrError('NO_OVERLAP', `the log covers ${roundTo(logStartS, 6)}–${roundTo(logEndS, 6)} s and the video ${roundTo(videoStartS, 6)}–${roundTo(videoEndS, 6)} s, but ${why}`, {
     path: 'sync',
     hint: 'check you picked the log that matches this video, or give the offset',
+    inputs: ['syncOffset'],
     details: { logStartS, logEndS, videoStartS, videoEndS, requiredFrames: required },
   });
 }

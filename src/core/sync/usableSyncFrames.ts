@@ -24,6 +24,7 @@ export function usableSyncFrames(frameTimesS: Float64Array, intensity: Float64Ar
     throw new KerrError('NOT_IDENTIFIABLE', `only ${keep.length} usable frame${keep.length === 1 ? '' : 's'} to synchronise the video with the log; at least ${minFrames} are needed`, {
       path: 'sync',
       hint: 'use a longer clip, or fewer excluded frames, or give the offset',
+      inputs: ['syncOffset'],
     });
   }
   const timeS = Float64Array.from(keep, (k) => frameTimesS[k]);
@@ -38,6 +39,7 @@ export function usableSyncFrames(frameTimesS: Float64Array, intensity: Float64Ar
     throw new KerrError('NOT_IDENTIFIABLE', `the beam intensity is the same (${roundTo(highestI, 4)}) in every usable frame, so the video cannot be synchronised with the log`, {
       path: 'sync',
       hint: 'check that the region covers the beam and that the camera did not clip it, or give the offset',
+      inputs: ['syncOffset'],
     });
   }
   return { timeS, intensity: frameI };

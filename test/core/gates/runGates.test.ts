@@ -28,6 +28,14 @@ describe('runGates', () => {
     expect(r.failures).toEqual([]);
     expect(r.warnings.map((w) => w.code)).toEqual(['implausible-kerr-constant']);
   });
+  it('names what to give or check as inputs, not as command-line options (cli/flagNames.ts adds those)', () => {
+    const inputsOf = (g: Partial<GateInput>, gate: string) => runGates({ ...clean, ...g }).failures.find((f) => f.gate === gate)?.inputs;
+    expect(inputsOf({ syncAmbiguous: true }, 'sync-ambiguous')).toEqual(['syncOffset']);
+    expect(inputsOf({ identifiable: false, maxVoltageOverHalfWave: 0.2 }, 'not-identifiable')).toEqual(['openLevel']);
+    expect(inputsOf({ ampVpiCorrelation: 0.999, relStdErrB: 0.5 }, 'weak-reach')).toEqual(['openLevel']);
+    expect(runGates({ ...clean, kerrConstant: 2.2e-6 }).warnings[0]!.inputs).toEqual(['length', 'gap']);
+    expect(runGates({ ...clean, converged: false }).failures[0]!.inputs).toBeUndefined();
+  });
   it('frameNoise recovers the standard deviation of white noise on a ramp (σ·√6 rule, within 5 %)', () => {
     let s = 12345;
     const rnd = () => { s = (s * 1103515245 + 12345) % 2147483648; return s / 2147483648; };

@@ -16,10 +16,11 @@ describe('baselineFloor', () => {
     expect(baselineFloor(quantity(0.01), quantity(0.004, 0.001)).scatterFloorFraction.stdErr).toBeUndefined();
   });
 
-  it('refuses a baseline without a finite floor fraction, naming --baseline', () => {
+  it('refuses a baseline without a finite floor fraction, naming the baseline input', () => {
     let caught: unknown;
     try { baselineFloor(quantity(0.01), quantity(NaN)); } catch (e) { caught = e; }
     expect(isKerrError(caught) && caught.code).toBe('BAD_RESULT');
-    expect(isKerrError(caught) && caught.path).toBe('--baseline');
+    expect(isKerrError(caught) && caught.path).toBe('baseline');
+    expect(isKerrError(caught) && caught.inputs).toEqual(['baseline']);
   });
 });

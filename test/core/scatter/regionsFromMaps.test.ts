@@ -65,6 +65,7 @@ describe('regionsFromMaps', () => {
     let caught: unknown;
     try { regionsFromMaps(maps, { stepPx: 8 }); } catch (e) { caught = e; }
     expect(isKerrError(caught) && caught.code).toBe('BAD_REGION');
-    expect(isKerrError(caught) && caught.hint).toMatch(/--roi/);
+    expect(isKerrError(caught) && caught.hint).toMatch(/give the beam region/);
+    expect(isKerrError(caught) && caught.inputs).toEqual(['beamRegion']); // the command line names it (--roi)
   });
 });

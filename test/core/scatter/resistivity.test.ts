@@ -62,6 +62,7 @@ describe('liquidResistivity', () => {
     expect(liquidResistivity({ voltageV: v, currentA: i, ...cell }).rows).toBe(4);
     let caught: unknown;
     try { liquidResistivity({ voltageV: v, currentA: i, ...cell, electrodeHeightM: 0 }); } catch (e) { caught = e; }
-    expect(isKerrError(caught) && caught.path).toBe('--electrode-height-mm');
+    expect(isKerrError(caught) && caught.path).toBe('electrodeHeight');
+    expect(isKerrError(caught) && caught.inputs).toEqual(['electrodeHeight']);
   });
 });
