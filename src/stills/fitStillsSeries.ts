@@ -6,20 +6,20 @@
  * photos that cannot be trusted, and adds the floor fraction.
  *
  * Rule for bad photos (skip and count, never drop silently): a photo with a reason in
- * `preExcluded` (e.g. "unreadable") keeps it; one with more than CLIPPED_WARNING_FRACTION (1 %)
+ * `preExcluded` (e.g. "unreadable") keeps it; one with more than CLIPPED_FRACTION_LIMIT (1 %)
  * of the beam region clipped is left out as "clipped"; one whose intensity or voltage is not
  * finite as "not-finite".
- * Floor fraction I_floor/I_amp with first-order error propagation that ignores the
- * floor–amplitude covariance: σ² = (σ_floor/I_amp)² + (I_floor·σ_amp/I_amp²)² (the same
- * propagation as analyze); NaN when the amplitude is not positive. Pure.
+ * Floor fraction I_floor/I_amp from core/figures/floorFraction (the one formula for video and
+ * photos). Pure.
  * @throws KerrError BAD_ARGUMENT when fewer than MIN_PHOTOS (6) usable photos at MIN_VOLTAGES (4)
  *   different voltages remain; whatever fitKerrCurve throws (FIT_FAILED when no start converges).
  * @example fitStillsSeries({ voltageV, intensity, clippedFraction, effectiveLengthM: 0.05, gapM: 0.005, polariserAngleDeg: 45 }).fit.kerrConstant
  */
 import { KerrError } from '../errors.js';
-import { quantity, type Quantity } from '../quantity.js';
+import type { Quantity } from '../quantity.js';
 import { fitKerrCurve, type KerrCurveFit, type KerrCurveInput } from '../core/fit/fitKerrCurve.js';
-import { CLIPPED_WARNING_FRACTION } from './clippedLimit.js';
+import { CLIPPED_FRACTION_LIMIT } from '../core/figures/clippedFractionLimit.js';
+import { floorFraction } from '../core/figures/floorFraction.js';
 
 export const MIN_PHOTOS = 6;
 export const MIN_VOLTAGES = 4;
@@ -65,7 +65,7 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
     let reason: string | null = input.preExcluded?.[i] ?? null;
     if (reason === null) {
       if (!Number.isFinite(input.intensity[i]!) || !Number.isFinite(input.voltageV[i]!)) reason = 'not-finite';
-      else if (input.clippedFraction[i]! > CLIPPED_WARNING_FRACTION) reason = 'clipped';
+      else if (input.clippedFraction[i]! > CLIPPED_FRACTION_LIMIT) reason = 'clipped';
     }
     excludedReason.push(reason);
     if (reason === null) {
@@ -93,12 +93,5 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
   const fit = fitKerrCurve(curveInput);
   const model = new Float64Array(n);
   for (let i = 0; i < n; i++) model[i] = Number.isFinite(input.voltageV[i]!) ? fit.predict(input.voltageV[i]!) : NaN;
-  const floor = fit.floorLevel;
-  const amp = fit.amplitude;
-  let floorFraction = quantity(NaN);
-  if (amp.value > 0) {
-    const err = Math.hypot((floor.stdErr ?? 0) / amp.value, (floor.value * (amp.stdErr ?? 0)) / (amp.value * amp.value));
-    floorFraction = quantity(floor.value / amp.value, floor.stdErr !== undefined || amp.stdErr !== undefined ? err : undefined);
-  }
-  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction };
+  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction: floorFraction(fit.floorLevel, fit.amplitude) };
 }

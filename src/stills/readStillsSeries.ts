@@ -56,7 +56,7 @@ import { relativeExposure, type ExifExposure } from './relativeExposure.js';
 import { captureTimesS, type ExifCaptureTime } from './captureTimes.js';
 import { codeToLinearLut } from './codeToLinearLut.js';
 import { measureImageRegions } from './measureImageRegions.js';
-import { CLIPPED_WARNING_FRACTION } from './clippedLimit.js';
+import { CLIPPED_FRACTION_LIMIT } from '../core/figures/clippedFractionLimit.js';
 
 export interface StillsOptions {
   /** CSV mapping file → voltage; without it the voltages come from the file names. */
@@ -455,9 +455,9 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
   const intensity = new Float64Array(n);
   for (let i = 0; i < n; i++) intensity[i] = (roiLinear[i]! - (darkLinear ? darkLinear[i]! : 0)) / exposureRelative[i]!;
 
-  const clippedPhotos = photos.filter((_, i) => clippedFraction[i]! > CLIPPED_WARNING_FRACTION);
+  const clippedPhotos = photos.filter((_, i) => clippedFraction[i]! > CLIPPED_FRACTION_LIMIT);
   if (clippedPhotos.length > 0) {
-    warn('clipping', `${clippedPhotos.length} photo(s) have more than ${percent(CLIPPED_WARNING_FRACTION)} of the beam region clipped (${listNames(clippedPhotos)}): their intensity reads low and they were left out of the fit; lower the exposure or add an ND filter`, 'avoid-clipping');
+    warn('clipping', `${clippedPhotos.length} photo(s) have more than ${percent(CLIPPED_FRACTION_LIMIT)} of the beam region clipped (${listNames(clippedPhotos)}): their intensity reads low and they were left out of the fit; lower the exposure or add an ND filter`, 'avoid-clipping');
   }
   // 7. The open photo, measured like the series and put on its exposure scale.
   let openPhoto: OpenPhoto | null = null;
@@ -479,7 +479,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
       throw fail(`the open photo ${path} could not be decoded (${messageOf(e)})`, 'Re-export it as JPEG, PNG or TIFF');
     }
     const clipped = measured[0]!.clippedFraction;
-    if (clipped > CLIPPED_WARNING_FRACTION) {
+    if (clipped > CLIPPED_FRACTION_LIMIT) {
       throw fail(`${percent(clipped)} of the beam region of the open photo is clipped, so the open level would read low`, 'Take the open photo at a shorter exposure time, with its exposure EXIF (or the grey card of --reference-roi in view) so kerrtrace can relate it to the series');
     }
     const darkOpen = opts.darkRoi ? measured[1]!.luma : 0;
