@@ -53,9 +53,16 @@ export interface StillsFit {
   /** Model value per photo (NaN where the voltage is not finite). */
   model: Float64Array;
   floorFraction: Quantity;
+  /** The input the fit ran on (the photos used, in usedIndex order), for refits of the uncertainty budget. */
+  curveInput: KerrCurveInput;
 }
 
-export function fitStillsSeries(input: StillsFitInput): StillsFit {
+/**
+ * Which photos the fit may use, decided once before it: a reason given in `preExcluded` stays;
+ * otherwise "not-finite" (intensity or voltage) or "clipped" (more than CLIPPED_FRACTION_LIMIT of
+ * the beam region). Counted by reason. Pure.
+ */
+export function photoExclusions(input: Pick<StillsFitInput, 'voltageV' | 'intensity' | 'clippedFraction' | 'preExcluded'>): Pick<StillsFit, 'used' | 'usedIndex' | 'excludedReason' | 'excluded'> {
   const n = input.voltageV.length;
   const used = new Uint8Array(n);
   const excludedReason: Array<string | null> = [];
@@ -73,13 +80,28 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
       usedIndex.push(i);
     } else excluded[reason] = (excluded[reason] ?? 0) + 1;
   }
-  const distinct = new Set(usedIndex.map((i) => Math.abs(input.voltageV[i]!))).size;
+  return { used, usedIndex, excludedReason, excluded };
+}
+
+/**
+ * Refuses a series the fit cannot use: fewer than MIN_PHOTOS usable photos or fewer than
+ * MIN_VOLTAGES different |V| among them (checked before the fit, and before a beam is looked for).
+ * @throws KerrError BAD_ARGUMENT naming the counts and what was left out.
+ */
+export function checkEnoughPhotos(voltageV: ArrayLike<number>, usedIndex: readonly number[], excluded: Record<string, number>): void {
+  const distinct = new Set(usedIndex.map((i) => Math.abs(voltageV[i]!))).size;
   if (usedIndex.length < MIN_PHOTOS || distinct < MIN_VOLTAGES) {
     const left = Object.entries(excluded).map(([k, v]) => `${v} ${k}`).join(', ');
     throw new KerrError('BAD_ARGUMENT', `the Kerr fit needs at least ${MIN_PHOTOS} usable photos at ${MIN_VOLTAGES} or more different voltages; this series has ${usedIndex.length} usable photo(s) at ${distinct} voltage(s)${left ? ` (left out: ${left})` : ''}`, {
       hint: 'Take more photos across the sweep, from zero to as close to the half-wave voltage as the cell safely allows',
     });
   }
+}
+
+export function fitStillsSeries(input: StillsFitInput): StillsFit {
+  const n = input.voltageV.length;
+  const { used, usedIndex, excludedReason, excluded } = photoExclusions(input);
+  checkEnoughPhotos(input.voltageV, usedIndex, excluded);
   const curveInput: KerrCurveInput = {
     voltageV: Float64Array.from(usedIndex, (i) => input.voltageV[i]!),
     intensity: Float64Array.from(usedIndex, (i) => input.intensity[i]!),
@@ -93,5 +115,5 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
   const fit = fitKerrCurve(curveInput);
   const model = new Float64Array(n);
   for (let i = 0; i < n; i++) model[i] = Number.isFinite(input.voltageV[i]!) ? fit.predict(input.voltageV[i]!) : NaN;
-  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction: floorFraction(fit.floorLevel, fit.amplitude) };
+  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction: floorFraction(fit.floorLevel, fit.amplitude), curveInput };
 }

@@ -87,18 +87,20 @@ describe('readStillsSeries', () => {
     const dir = folder();
     const codes = new Uint16Array(16 * 8 * 3).fill(13107); // 0.2 of full scale
     await write16(join(dir, 'a_1kV.tif'), codes, 16, 8, 'tiff');
-    const tif = await readStillsSeries(dir, {});
+    // One photo: nothing varies across it, so the beam is given (the whole 16×8 picture).
+    const whole = { roi: { x: 0, y: 0, w: 16, h: 8 } };
+    const tif = await readStillsSeries(dir, whole);
     expect(tif.bitDepths).toEqual([16]);
     expect(tif.transfers).toEqual(['linear']);
     expect(tif.roiLinear[0]).toBeCloseTo(0.2, 12);
     expect(tif.notes.join(' ')).toMatch(/read as linear/);
-    const overridden = await readStillsSeries(dir, { transfer: 'srgb' });
+    const overridden = await readStillsSeries(dir, { ...whole, transfer: 'srgb' });
     expect(overridden.roiLinear[0]).toBeCloseTo(Math.pow((0.2 + 0.055) / 1.055, 2.4), 5); // IEC 61966-2-1 decode of V = 0.2
 
     const dir2 = folder();
     const half = new Uint16Array(16 * 8 * 3).fill(32768); // V ≈ 0.5 → 0.214041 (IEC 61966-2-1)
     await write16(join(dir2, 'b_1kV.png'), half, 16, 8, 'png');
-    const png = await readStillsSeries(dir2, {});
+    const png = await readStillsSeries(dir2, whole);
     expect(png.transfers).toEqual(['srgb']);
     expect(Math.abs(png.roiLinear[0]! - 0.214041)).toBeLessThan(2e-5);
   });

@@ -19,7 +19,7 @@ function series(volts: number[], extra: Partial<StillsSeries> = {}): StillsSerie
   return {
     voltageV: Float64Array.from(volts), intensity, files: volts.map((v, i) => `p${i}_${v}V.jpg`), clippedFraction: new Float64Array(n),
     exposureRelative: new Float64Array(n).fill(1), warnings: [{ code: 'exposure-unknown', message: 'cannot tell', guideSection: 'lock-exposure' }], width: 160, height: 120,
-    notes: ['a note'], roi: { x: 10, y: 10, w: 20, h: 20 }, roiIsWholeFrame: false, darkRoi: null, referenceRoi: null,
+    notes: ['a note'], roi: { x: 10, y: 10, w: 20, h: 20 }, beamAuto: false, surround: null, surroundLinear: null, darkRoi: null, referenceRoi: null,
     roiLinear: intensity.slice(), darkLinear: null, referenceLinear: null, exposureBasis: 'none', exposureFactors: [], voltageSource: 'file-names',
     transfers: volts.map(() => 'srgb' as const), bitDepths: volts.map(() => 8), unreadable: volts.map(() => null), captureTimeS: null, leftOut: [], openPhoto: null,
     ...extra,
