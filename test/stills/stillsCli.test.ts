@@ -154,6 +154,24 @@ describe('kerrtrace stills (real CLI)', () => {
     expect(existsSync(join(out, 'trace.csv'))).toBe(true);
   });
 
+  it('without --roi the beam is found and its surround subtracted: B within 3 %, warned as auto-region, drawn on regions.png', () => {
+    const out = join(work.dir, 'out-auto');
+    const r = stills([photos, '--length-mm', '50', '--gap-mm', '5', '--out', out, '--quiet', '--no-report']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const result = readResult(out);
+    expect(result.regions.beamAuto).toBe(true);
+    const b = result.regions.beam;
+    expect(b.x <= 80 && b.x + b.w >= 80 && b.y <= 60 && b.y + b.h >= 60).toBe(true); // the disc's centre (stillsFixtures)
+    expect(result.regions.surround).toBeDefined();
+    expect(result.warnings.map((w) => w.code)).toContain('auto-region');
+    expect(Math.abs(result.kerrConstant.value / B - 1)).toBeLessThan(0.03);
+    expect(result.frames.excluded).toEqual({ clipped: 1 });
+    expect(existsSync(join(out, 'regions.png'))).toBe(true);
+    const csv = readFileSync(join(out, 'stills.csv'), 'utf8').trim().split('\n');
+    expect(Number(csv[1]!.split(',').at(-1))).toBeGreaterThan(0); // surround_linear: ambient and black level around the disc
+  });
+
   it('a phone-like series (auto exposure tracked by a grey card, flicker, pixel noise): B within 3 %', () => {
     const out = join(work.dir, 'phone-out');
     const r = stills([phone, '--length-mm', '50', '--gap-mm', '5', ...REGIONS, '--reference-roi', '10,10,30,30', '--out', out]);
