@@ -146,6 +146,8 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
   const sizes = await readSizes(folder, photos, warn);
   const { width, height } = sizes;
   for (const [r, option] of [[opts.roi, '--roi'], [opts.darkRoi, '--dark-roi'], [opts.referenceRoi, '--reference-roi']] as const) if (r) validateRect(r, width, height, option);
+  const apart = { ...(opts.darkRoi ? { dark: opts.darkRoi } : {}), ...(opts.referenceRoi ? { reference: opts.referenceRoi } : {}) };
+  if (opts.roi) checkRegionsApart({ beam: opts.roi, beamOption: '--roi', ...apart }); // before any pixel is read
   const exif: PhotoExif[] = [];
   for (const p of photos) exif.push(await readPhotoExif(join(folder, p)));
   const captureTimeS = captureTimesS(exif);
@@ -164,7 +166,7 @@ export async function readStillsSeries(folder: string, opts: StillsOptions = {})
 
   const beam = opts.roi ? fromPlan(pixels, given) : fromGrids(pixels, volts.voltageV, exposure.exposureRelative, opts.darkRoi ?? null, width, height, warn);
   if (!beam.surround && !opts.darkRoi) warn('no-surround', 'the beam region leaves no room for a surround ring, so the floor includes any background light; give --dark-roi', 'camera-still');
-  checkRegionsApart({ beam: beam.roi, beamOption: opts.roi ? '--roi' : 'found automatically', ...(opts.darkRoi ? { dark: opts.darkRoi } : {}), ...(opts.referenceRoi ? { reference: opts.referenceRoi } : {}) });
+  if (!opts.roi) checkRegionsApart({ beam: beam.roi, beamOption: 'found automatically', ...apart });
   const n = photos.length;
   const background = pixels.dark ?? beam.surroundLinear;
   const intensity = Float64Array.from({ length: n }, (_, i) => (beam.roiLinear[i]! - (background ? background[i]! : 0)) / exposure.exposureRelative[i]!);

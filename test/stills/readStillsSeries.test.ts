@@ -333,5 +333,16 @@ describe('readStillsSeries', () => {
       expect(e.code).toBe('BAD_REGION');
       expect(e.line).toMatch(/--roi reaches x = 170, outside the 160x120 frame/);
     });
+
+    it('a dark region on the beam (given or found) is refused: it would subtract signal', async () => {
+      const dir = folder();
+      for (const [k, v] of [0, 2000, 4000, 6000, 8000, 10000].entries()) await writeJpeg(join(dir, `p${k}_${v}V.jpg`), { beam: 0.05 + 0.05 * k });
+      const onBeam = { x: 70, y: 50, w: 10, h: 10 };
+      const given = await errorOf(readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: onBeam }));
+      expect(given.code).toBe('BAD_REGION');
+      expect(given.line).toMatch(/--dark-roi 70,50,10,10 overlaps the beam region \(--roi\)/);
+      const found = await errorOf(readStillsSeries(dir, { darkRoi: onBeam }));
+      expect(found.line).toMatch(/--dark-roi 70,50,10,10 overlaps the beam region \(found automatically\)/);
+    });
   });
 });
