@@ -3,10 +3,11 @@
  * from photos taken at known voltages, written like an analyze run (result.json with source
  * "stills", trace.csv, report.html, summary.md, plots/, regions.png, stills.csv).
  * The amplitude is fixed by --open-level (a number) or --open-photo (measured like the series).
- * Order: parse and check every option (mm → m once, here), refuse an existing output folder
- * before any photo is read, read the series (src/stills/readStillsSeries.ts), hash the inputs,
- * build the run (src/stills/stillsRunResult.ts), write the folder whole or not at all
- * (writeRunDir), then print the photo table and the summary (cli/summaryText.ts) or result.json.
+ * This file only parses and checks the options and wires them: the job itself is
+ * src/stills/runStills.ts (output folder checked before any photo is read, series read, inputs
+ * hashed, the record built once, the folder written whole or not at all). Then it prints the
+ * photo table and the summary (cli/summaryText.ts) or result.json, and exits 3 (NOT_VALID) when
+ * the run failed a gate (the result is kept, marked not valid).
  * Heavy modules (sharp, exifr through the reader, vega through the report) are imported inside
  * the action, after the options are checked.
  */
@@ -16,12 +17,10 @@ import { action } from '../action.js';
 import { makeProgress } from '../progress.js';
 import { summaryText } from '../summaryText.js';
 import { toolVersion } from '../toolVersion.js';
-import { KerrError, invalid, isKerrError } from '../../src/errors.js';
+import { KerrError, invalid } from '../../src/errors.js';
 import type { Rect, TransferName } from '../../src/media/types.js';
-import { checkOutputDir } from '../../src/io/outputDir.js';
-import { parseNumberOption, parseRectOption, parseTransferOption } from '../optionParsers.js';
-import type { InputFile } from '../../src/result/schema.js';
-import type { StillsOptions } from '../../src/stills/readStillsSeries.js';
+import { parseNumberOption, parsePercentOption, parseRectOption, parseToleranceOption, parseTransferOption } from '../optionParsers.js';
+import { checkStillsOptions, type RunStillsOptions } from '../../src/stills/stillsRunOptions.js';
 
 interface StillsCliOptions {
   volts?: string;
@@ -37,6 +36,7 @@ interface StillsCliOptions {
   cameraProfile?: string;
   openLevel?: string;
   openPhoto?: string;
+  voltsAccuracy?: string;
   label?: string;
   out?: string;
   force?: boolean;
@@ -64,15 +64,16 @@ export function register(program: Command): void {
     .description('measure the Kerr constant and half-wave voltage from a folder of photos taken at known voltages (JPEG, PNG, TIFF)')
     .argument('<folder>', 'folder holding the photos')
     .option('--volts <csv>', 'CSV with a file column and a voltage column (default: voltages from the file names, e.g. step07_12.5kV.jpg)')
-    .option('--length-mm <L>', 'electrode length along the beam, mm')
-    .option('--gap-mm <d>', 'electrode gap, mm')
+    .option('--length-mm <L>', 'electrode length along the beam, mm, optionally with its tolerance: 40±0.1')
+    .option('--gap-mm <d>', 'electrode gap, mm, optionally with its tolerance: 4±0.05')
+    .option('--volts-accuracy <P>', 'accuracy of the voltages given, ± percent of reading (default 1)')
     .option('--out <dir>', 'output folder (default: <folder name>.kerrtrace beside the photo folder)')
     .option('--force', 'replace an existing output folder')
-    .option('--roi <x,y,w,h>', 'beam region in pixels (default: the whole photo)')
-    .option('--dark-roi <x,y,w,h>', 'a region with no beam: its level is subtracted')
+    .option('--roi <x,y,w,h>', 'beam region in pixels (default: found automatically as the area that varies most across the photos)')
+    .option('--dark-roi <x,y,w,h>', 'a region with no beam: its level is subtracted (default: the local surround from two rings around the beam)')
     .option('--reference-roi <x,y,w,h>', 'a region of constant brightness (grey card) to track exposure when EXIF is missing')
     .option('--open-photo <file>', 'a photo with the analyser parallel and no field, same camera position: its level fixes the amplitude')
-    .option('--open-level <X>', 'open level in the linear units of trace.csv (fixes the amplitude)')
+    .option('--open-level <X>', 'open level in the linear units of trace.csv (fixes the amplitude), optionally with its tolerance: 0.42±0.01')
     .option('--effective-length-mm <L>', 'optical effective length, mm (default: --length-mm)')
     .option('--polariser-angle-deg <deg>', 'polariser angle to the field, degrees, analyser crossed (default 45)')
     .option('--static-retardance-rad <R>', 'known zero-field retardance of the cell windows, rad (default 0)')
@@ -85,124 +86,74 @@ export function register(program: Command): void {
     .option('--quiet', 'no progress bar')
     .action(
       action(async (folder: string, o: StillsCliOptions) => {
-        // Settings first, checked where they enter.
-        const lengthMm = parseNumberOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'a positive electrode length in mm', 'positive');
-        const gapMm = parseNumberOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'a positive electrode gap in mm', 'positive');
+        // Settings first, checked where they enter (mm stay mm here; runStills converts once).
+        const length = parseToleranceOption(required(o.lengthMm, '--length-mm', 'electrode length'), '--length-mm', 'a positive electrode length in mm');
+        const gap = parseToleranceOption(required(o.gapMm, '--gap-mm', 'electrode gap'), '--gap-mm', 'a positive electrode gap in mm');
+        const lengthMm = parseNumberOption(String(length.value), '--length-mm', 'a positive electrode length in mm', 'positive');
+        const gapMm = parseNumberOption(String(gap.value), '--gap-mm', 'a positive electrode gap in mm', 'positive');
         const effectiveLengthMm = o.effectiveLengthMm === undefined ? lengthMm : parseNumberOption(o.effectiveLengthMm, '--effective-length-mm', 'a positive effective length in mm', 'positive');
-        if (effectiveLengthMm < lengthMm) {
-          throw invalid(`an effective length at least the electrode length (${lengthMm} mm)`, '--effective-length-mm', o.effectiveLengthMm, 'Fringe fields only lengthen the cell');
-        }
-        const polariserAngleDeg = parseNumberOption(o.polariserAngleDeg ?? '45', '--polariser-angle-deg', 'an angle in degrees');
-        const staticRetardanceRad = o.staticRetardanceRad === undefined ? undefined : parseNumberOption(o.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad');
-        const openLevel = o.openLevel === undefined ? undefined : parseNumberOption(o.openLevel, '--open-level', 'a positive open level in the linear units of trace.csv', 'positive');
-        if (openLevel !== undefined && o.openPhoto !== undefined) {
-          throw new KerrError('BAD_ARGUMENT', 'give at most one of --open-level and --open-photo', { path: '--open-photo', hint: 'They are two ways to give the same open level' });
-        }
+        const polariserAngleDeg = parseNumberOption(o.polariserAngleDeg ?? '45', '--polariser-angle-deg', 'an angle in degrees', 'finite');
+        const staticRetardanceRad = o.staticRetardanceRad === undefined ? undefined : parseNumberOption(o.staticRetardanceRad, '--static-retardance-rad', 'a retardance in rad', 'finite');
+        const open = o.openLevel === undefined ? undefined : parseToleranceOption(o.openLevel, '--open-level', 'a positive open level in the linear units of trace.csv', 'linear units');
+        const openLevel = open === undefined ? undefined : parseNumberOption(String(open.value), '--open-level', 'a positive open level in the linear units of trace.csv', 'positive');
+        const voltsAccuracyPercent = o.voltsAccuracy === undefined ? undefined : parsePercentOption(o.voltsAccuracy, '--volts-accuracy', 'a voltage meter accuracy in percent of reading (e.g. 1)');
         const rect = (text: string | undefined, option: string): Rect | undefined => (text === undefined ? undefined : parseRectOption(text, option));
         const roi = rect(o.roi, '--roi');
         const darkRoi = rect(o.darkRoi, '--dark-roi');
         const referenceRoi = rect(o.referenceRoi, '--reference-roi');
         const transfer: TransferName | undefined = o.transfer === undefined ? undefined : parseTransferOption(o.transfer, '--transfer');
         if (o.label !== undefined && o.label.trim() === '') throw invalid('a non-empty label', '--label', o.label);
-        const outDir = o.out ?? defaultStillsOutDir(folder);
-        checkOutputDir(outDir, o.force === true, [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])]);
+        const robust = o.robust !== false;
+        const options: RunStillsOptions = {
+          folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust,
+          label: o.label ?? basename(resolve(folder)), outDir: o.out ?? defaultStillsOutDir(folder), force: o.force === true, report: o.report !== false,
+          ...(length.tolerance !== undefined ? { lengthToleranceMm: length.tolerance } : {}), ...(gap.tolerance !== undefined ? { gapToleranceMm: gap.tolerance } : {}),
+          ...(o.volts !== undefined ? { voltsPath: o.volts } : {}), ...(roi ? { roi } : {}), ...(darkRoi ? { darkRoi } : {}), ...(referenceRoi ? { referenceRoi } : {}),
+          ...(transfer ? { transfer } : {}), ...(o.cameraProfile !== undefined ? { cameraProfilePath: o.cameraProfile } : {}),
+          ...(openLevel !== undefined ? { openLevel } : {}), ...(open?.tolerance !== undefined ? { openLevelTolerance: open.tolerance } : {}),
+          ...(o.openPhoto !== undefined ? { openPhotoPath: o.openPhoto } : {}), ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}),
+          ...(voltsAccuracyPercent !== undefined ? { voltsAccuracyPercent } : {}),
+          asGiven: {
+            folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust,
+            ...(length.tolerance !== undefined ? { lengthToleranceMm: length.tolerance } : {}), ...(gap.tolerance !== undefined ? { gapToleranceMm: gap.tolerance } : {}),
+            ...(o.volts !== undefined ? { voltsPath: o.volts } : {}),
+            ...(roi ? { roi } : {}), ...(darkRoi ? { darkRoi } : {}), ...(referenceRoi ? { referenceRoi } : {}),
+            ...(transfer ? { transfer } : {}), ...(openLevel !== undefined ? { openLevel } : {}), ...(open?.tolerance !== undefined ? { openLevelTolerance: open.tolerance } : {}),
+            ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}), ...(voltsAccuracyPercent !== undefined ? { voltsAccuracyPercent } : {}),
+            ...(o.label !== undefined ? { label: o.label } : {}),
+          },
+        };
+        checkStillsOptions(options);
 
         // The work. The image, EXIF, fitting and plot libraries load only now, so that
         // `kerrtrace --help` and the other commands start quickly.
-        const [
-          { default: sharp }, { readStillsSeries }, { stillsRunResult }, { stillsCsv }, { stillsRegionOverlay },
-          { formatPhotoTable }, { sha256File }, { writeRunDir, jsonSafe }, { writeRunReport },
-        ] = await Promise.all([
-          import('sharp'),
-          import('../../src/stills/readStillsSeries.js'),
-          import('../../src/stills/stillsRunResult.js'),
-          import('../../src/stills/stillsCsv.js'),
-          import('../../src/stills/stillsRegionOverlay.js'),
+        const [{ runStills }, { formatPhotoTable }, { jsonSafe }] = await Promise.all([
+          import('../../src/stills/runStills.js'),
           import('../../src/stills/formatPhotoTable.js'),
-          import('../../src/io/sha256File.js'),
           import('../../src/pipeline/writeRun.js'),
-          import('../../src/report/writeRunReport.js'),
         ]);
-        const readOptions: StillsOptions = {};
-        if (o.volts !== undefined) readOptions.voltsPath = o.volts;
-        if (roi) readOptions.roi = roi;
-        if (darkRoi) readOptions.darkRoi = darkRoi;
-        if (referenceRoi) readOptions.referenceRoi = referenceRoi;
-        if (transfer) readOptions.transfer = transfer;
-        if (transfer && o.cameraProfile !== undefined) throw new KerrError('BAD_ARGUMENT', 'give --transfer or --camera-profile, not both', { path: '--camera-profile', hint: 'A camera profile replaces the transfer curve' });
-        const { readCameraProfile } = await import('../../src/io/cameraProfile.js');
-        const cameraProfile = o.cameraProfile !== undefined ? { path: o.cameraProfile, profile: await readCameraProfile(o.cameraProfile) } : undefined;
-        if (cameraProfile) readOptions.response = cameraProfile.profile.response;
-        if (o.openPhoto !== undefined) readOptions.openPhotoPath = o.openPhoto;
         const progress = makeProgress('reading photos', o.quiet === true || o.json === true);
-        let series;
+        let run;
         try {
-          series = await readStillsSeries(folder, { ...readOptions, onProgress: (done, total) => progress.update(done, total) });
+          run = await runStills(options, {
+            createdAt: new Date().toISOString(),
+            tool: { name: 'kerrtrace', version: toolVersion(), ffmpegVersion: null, node: process.version },
+            onProgress: (done, total) => progress.update(done, total),
+          });
         } finally {
           progress.stop();
         }
-        const amplitude = openLevel ?? series.openPhoto?.intensity;
-        const stills: InputFile[] = [];
-        for (const f of series.files) stills.push({ path: join(folder, f), sha256: await sha256File(join(folder, f)) });
-        const run = stillsRunResult({
-          series,
-          cell: { lengthM: lengthMm * 1e-3, effectiveLengthM: effectiveLengthMm * 1e-3, gapM: gapMm * 1e-3, polariserAngleDeg },
-          fitOptions: {
-            robust: o.robust !== false,
-            ...(amplitude !== undefined ? { openLevel: amplitude } : {}),
-            ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}),
-          },
-          label: o.label ?? basename(resolve(folder)),
-          createdAt: new Date().toISOString(),
-          tool: { name: 'kerrtrace', version: toolVersion(), ffmpegVersion: null, node: process.version },
-          inputs: {
-            stills, ...(o.volts !== undefined ? { volts: { path: o.volts, sha256: await sha256File(o.volts) } } : {}),
-            ...(cameraProfile ? { cameraProfile: { path: cameraProfile.path, sha256: await sha256File(cameraProfile.path) } } : {}),
-          },
-          options: {
-            folder, lengthMm, gapMm, effectiveLengthMm, polariserAngleDeg, robust: o.robust !== false,
-            ...(o.volts !== undefined ? { voltsPath: o.volts } : {}),
-            ...(roi ? { roi } : {}), ...(darkRoi ? { darkRoi } : {}), ...(referenceRoi ? { referenceRoi } : {}),
-            ...(transfer ? { transfer } : {}), ...(openLevel !== undefined ? { openLevel } : {}),
-            ...(staticRetardanceRad !== undefined ? { staticRetardanceRad } : {}),
-            ...(o.label !== undefined ? { label: o.label } : {}),
-            ...(series.openPhoto
-              ? { openPhoto: { path: series.openPhoto.path, sha256: await sha256File(series.openPhoto.path), level: series.openPhoto.intensity, exposureRelative: series.openPhoto.exposureRelative } }
-              : {}),
-            imageDecoder: `sharp ${sharp.versions.sharp ?? 'unknown'} (libvips ${sharp.versions.vips})`,
-          },
-        });
-        const { result, trace } = run;
-        const { stillsCameraResponse } = await import('../../src/stills/stillsCameraResponse.js');
-        const response = stillsCameraResponse(result, trace, {
-          transfer: series.transfers[0] ?? 'srgb', transferFromOption: transfer !== undefined, ...(cameraProfile ? { profile: cameraProfile } : {}),
-        }, amplitude);
-        result.cameraResponse = response.record;
-        result.warnings.push(...response.warnings);
-        if (cameraProfile) result.options.cameraProfile = cameraProfile.path;
-
-        // regions.png is a convenience: a photo that will not decode again only costs the picture.
-        let regionsPng: Buffer | undefined;
-        try {
-          regionsPng = await stillsRegionOverlay(folder, series, trace.map((r) => r.used));
-        } catch (err) {
-          if (!isKerrError(err)) throw err;
-          result.warnings.push({ code: 'overlay-photo', message: `regions.png was not drawn: ${err.message}` });
-        }
-        const written = await writeRunDir(outDir, o.force === true, {
-          inputs: [folder, ...(o.volts !== undefined ? [o.volts] : []), ...(o.openPhoto !== undefined ? [o.openPhoto] : [])],
-          result,
-          trace,
-          extraFiles: { 'stills.csv': stillsCsv(series), ...(regionsPng ? { 'regions.png': regionsPng } : {}) },
-          ...(o.report !== false
-            ? { writeReports: async (dir, r) => (await writeRunReport(dir, { result: r, trace, ...(regionsPng ? { images: { frameWithRegionsPng: regionsPng } } : {}) })).files }
-            : {}),
-        });
+        const { result, trace, series, written } = run;
         if (o.json === true) {
           process.stdout.write(`${JSON.stringify(result, jsonSafe, 2)}\n`);
         } else {
           process.stdout.write(`${formatPhotoTable(series, trace)}\n`);
           process.stdout.write(summaryText(result, written));
+        }
+        const validity = result.validity;
+        if (validity && !validity.valid) {
+          // The run is written (marked not valid) so it can be inspected; its figures are not to be used.
+          throw new KerrError('NOT_VALID', `the run failed ${validity.failures.length === 1 ? 'a check' : `${validity.failures.length} checks`}: ${validity.failures.map((f) => f.message).join('; ')}`, { hint: `The result is kept in ${written}, marked not valid; see docs/stills.md, "Gates"` });
         }
       }),
     );

@@ -23,7 +23,7 @@ import { KerrError } from '../errors.js';
 import type { Rect } from '../media/types.js';
 import { escapeHtml } from '../report/escapeHtml.js';
 
-export type OverlayKind = 'beam' | 'core' | 'halo' | 'dark' | 'reference';
+export type OverlayKind = 'beam' | 'core' | 'halo' | 'dark' | 'reference' | 'surround';
 
 export interface OverlayRegion {
   kind: OverlayKind;
@@ -48,6 +48,7 @@ export const OVERLAY_STYLE: Record<OverlayKind, { colour: string; dash: number[]
   halo: { colour: '#E69F00', dash: [3, 2], legend: 'halo annulus (static map)' },
   dark: { colour: '#56B4E9', dash: [0.6, 1.6], legend: 'far dark' },
   reference: { colour: '#009E73', dash: [5, 1.6, 1, 1.6], legend: 'reference' },
+  surround: { colour: '#CC79A7', dash: [8, 2, 1, 2], legend: 'surround rings (background under the beam)' },
 };
 
 const FONT = 'DejaVu Sans, Liberation Sans, Arial, sans-serif';

@@ -262,7 +262,7 @@ function rectText(rect: { x: number; y: number; w: number; h: number } | undefin
 function imagesSection(r: RunResult, images: RunReportImages): SafeHtml {
   const g = r.regions;
   if (r.source === 'stills') {
-    const beam = r.options.roi === undefined ? '(the whole photo)' : '(set by hand)';
+    const beam = g.beamAuto ? '(found automatically)' : r.options.roi === undefined ? '(the whole photo: a run from before the beam was found automatically)' : '(set by hand)';
     const maps = images.staticMapPng === undefined && images.modulatedMapPng === undefined
       ? null
       : html`<div class="images">
@@ -270,7 +270,7 @@ ${imageFigure(images.staticMapPng, 'Static light map', 'Per-pixel intercept of i
 ${imageFigure(images.modulatedMapPng, 'Modulated light map', 'Per-pixel slope against the modulation term: where the Kerr-modulated beam is.', 'No modulated light map was supplied to this report.', 'modulated-map')}
 </div>`;
     return html`<section id="images"><h2><span class="no">7</span>Photo and regions</h2>
-${imageFigure(images.frameWithRegionsPng, 'A photo with the regions drawn', `The brightest photo used in the fit. Beam region ${beam}: ${rectText(g.beam)}; dark: ${rectText(g.dark)}; reference: ${rectText(g.reference)}.`, 'No photo was supplied to this report.', 'frame')}
+${imageFigure(images.frameWithRegionsPng, 'A photo with the regions drawn', `The brightest photo used in the fit. Beam region ${beam}: ${rectText(g.beam)}; dark: ${rectText(g.dark)}${g.surround ? `; surround rings out to ${rectText(g.surround)}` : ''}; reference: ${rectText(g.reference)}.`, 'No photo was supplied to this report.', 'frame')}
 ${maps}
 </section>`;
   }

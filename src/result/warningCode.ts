@@ -46,8 +46,6 @@ export const WARNING_CODES = {
   // stills: photo series
   'photos-not-in-map': 'photos in the folder but not in the voltage table were left out',
   'mixed-bit-depth': 'the series mixes 8-bit and 16-bit photos',
-  'whole-photo-region': 'no beam region was given, so the whole photo was measured',
-  'no-dark-region': 'no dark region was given, so the black level and ambient light stay in the intensity',
   'capture-order': 'the EXIF capture times do not follow the order of the file names',
   unreadable: 'photos that could not be read were left out',
   'exposure-exif-partial': 'some photos lack exposure EXIF, so their exposure was not normalised',

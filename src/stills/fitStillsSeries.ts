@@ -6,20 +6,20 @@
  * photos that cannot be trusted, and adds the floor fraction.
  *
  * Rule for bad photos (skip and count, never drop silently): a photo with a reason in
- * `preExcluded` (e.g. "unreadable") keeps it; one with more than CLIPPED_WARNING_FRACTION (1 %)
+ * `preExcluded` (e.g. "unreadable") keeps it; one with more than CLIPPED_FRACTION_LIMIT (1 %)
  * of the beam region clipped is left out as "clipped"; one whose intensity or voltage is not
  * finite as "not-finite".
- * Floor fraction I_floor/I_amp with first-order error propagation that ignores the
- * floor–amplitude covariance: σ² = (σ_floor/I_amp)² + (I_floor·σ_amp/I_amp²)² (the same
- * propagation as analyze); NaN when the amplitude is not positive. Pure.
+ * Floor fraction I_floor/I_amp from core/figures/floorFraction (the one formula for video and
+ * photos). Pure.
  * @throws KerrError BAD_ARGUMENT when fewer than MIN_PHOTOS (6) usable photos at MIN_VOLTAGES (4)
  *   different voltages remain; whatever fitKerrCurve throws (FIT_FAILED when no start converges).
  * @example fitStillsSeries({ voltageV, intensity, clippedFraction, effectiveLengthM: 0.05, gapM: 0.005, polariserAngleDeg: 45 }).fit.kerrConstant
  */
 import { KerrError } from '../errors.js';
-import { quantity, type Quantity } from '../quantity.js';
+import type { Quantity } from '../quantity.js';
 import { fitKerrCurve, type KerrCurveFit, type KerrCurveInput } from '../core/fit/fitKerrCurve.js';
-import { CLIPPED_WARNING_FRACTION } from './clippedLimit.js';
+import { CLIPPED_FRACTION_LIMIT } from '../core/figures/clippedFractionLimit.js';
+import { floorFraction } from '../core/figures/floorFraction.js';
 
 export const MIN_PHOTOS = 6;
 export const MIN_VOLTAGES = 4;
@@ -53,9 +53,16 @@ export interface StillsFit {
   /** Model value per photo (NaN where the voltage is not finite). */
   model: Float64Array;
   floorFraction: Quantity;
+  /** The input the fit ran on (the photos used, in usedIndex order), for refits of the uncertainty budget. */
+  curveInput: KerrCurveInput;
 }
 
-export function fitStillsSeries(input: StillsFitInput): StillsFit {
+/**
+ * Which photos the fit may use, decided once before it: a reason given in `preExcluded` stays;
+ * otherwise "not-finite" (intensity or voltage) or "clipped" (more than CLIPPED_FRACTION_LIMIT of
+ * the beam region). Counted by reason. Pure.
+ */
+export function photoExclusions(input: Pick<StillsFitInput, 'voltageV' | 'intensity' | 'clippedFraction' | 'preExcluded'>): Pick<StillsFit, 'used' | 'usedIndex' | 'excludedReason' | 'excluded'> {
   const n = input.voltageV.length;
   const used = new Uint8Array(n);
   const excludedReason: Array<string | null> = [];
@@ -65,7 +72,7 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
     let reason: string | null = input.preExcluded?.[i] ?? null;
     if (reason === null) {
       if (!Number.isFinite(input.intensity[i]!) || !Number.isFinite(input.voltageV[i]!)) reason = 'not-finite';
-      else if (input.clippedFraction[i]! > CLIPPED_WARNING_FRACTION) reason = 'clipped';
+      else if (input.clippedFraction[i]! > CLIPPED_FRACTION_LIMIT) reason = 'clipped';
     }
     excludedReason.push(reason);
     if (reason === null) {
@@ -73,13 +80,28 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
       usedIndex.push(i);
     } else excluded[reason] = (excluded[reason] ?? 0) + 1;
   }
-  const distinct = new Set(usedIndex.map((i) => Math.abs(input.voltageV[i]!))).size;
+  return { used, usedIndex, excludedReason, excluded };
+}
+
+/**
+ * Refuses a series the fit cannot use: fewer than MIN_PHOTOS usable photos or fewer than
+ * MIN_VOLTAGES different |V| among them (checked before the fit, and before a beam is looked for).
+ * @throws KerrError BAD_ARGUMENT naming the counts and what was left out.
+ */
+export function checkEnoughPhotos(voltageV: ArrayLike<number>, usedIndex: readonly number[], excluded: Record<string, number>): void {
+  const distinct = new Set(usedIndex.map((i) => Math.abs(voltageV[i]!))).size;
   if (usedIndex.length < MIN_PHOTOS || distinct < MIN_VOLTAGES) {
     const left = Object.entries(excluded).map(([k, v]) => `${v} ${k}`).join(', ');
     throw new KerrError('BAD_ARGUMENT', `the Kerr fit needs at least ${MIN_PHOTOS} usable photos at ${MIN_VOLTAGES} or more different voltages; this series has ${usedIndex.length} usable photo(s) at ${distinct} voltage(s)${left ? ` (left out: ${left})` : ''}`, {
       hint: 'Take more photos across the sweep, from zero to as close to the half-wave voltage as the cell safely allows',
     });
   }
+}
+
+export function fitStillsSeries(input: StillsFitInput): StillsFit {
+  const n = input.voltageV.length;
+  const { used, usedIndex, excludedReason, excluded } = photoExclusions(input);
+  checkEnoughPhotos(input.voltageV, usedIndex, excluded);
   const curveInput: KerrCurveInput = {
     voltageV: Float64Array.from(usedIndex, (i) => input.voltageV[i]!),
     intensity: Float64Array.from(usedIndex, (i) => input.intensity[i]!),
@@ -93,12 +115,5 @@ export function fitStillsSeries(input: StillsFitInput): StillsFit {
   const fit = fitKerrCurve(curveInput);
   const model = new Float64Array(n);
   for (let i = 0; i < n; i++) model[i] = Number.isFinite(input.voltageV[i]!) ? fit.predict(input.voltageV[i]!) : NaN;
-  const floor = fit.floorLevel;
-  const amp = fit.amplitude;
-  let floorFraction = quantity(NaN);
-  if (amp.value > 0) {
-    const err = Math.hypot((floor.stdErr ?? 0) / amp.value, (floor.value * (amp.stdErr ?? 0)) / (amp.value * amp.value));
-    floorFraction = quantity(floor.value / amp.value, floor.stdErr !== undefined || amp.stdErr !== undefined ? err : undefined);
-  }
-  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction };
+  return { fit, used, usedIndex, excludedReason, excluded, model, floorFraction: floorFraction(fit.floorLevel, fit.amplitude), curveInput };
 }

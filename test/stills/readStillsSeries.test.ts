@@ -87,18 +87,20 @@ describe('readStillsSeries', () => {
     const dir = folder();
     const codes = new Uint16Array(16 * 8 * 3).fill(13107); // 0.2 of full scale
     await write16(join(dir, 'a_1kV.tif'), codes, 16, 8, 'tiff');
-    const tif = await readStillsSeries(dir, {});
+    // One photo: nothing varies across it, so the beam is given (the whole 16×8 picture).
+    const whole = { roi: { x: 0, y: 0, w: 16, h: 8 } };
+    const tif = await readStillsSeries(dir, whole);
     expect(tif.bitDepths).toEqual([16]);
     expect(tif.transfers).toEqual(['linear']);
     expect(tif.roiLinear[0]).toBeCloseTo(0.2, 12);
     expect(tif.notes.join(' ')).toMatch(/read as linear/);
-    const overridden = await readStillsSeries(dir, { transfer: 'srgb' });
+    const overridden = await readStillsSeries(dir, { ...whole, transfer: 'srgb' });
     expect(overridden.roiLinear[0]).toBeCloseTo(Math.pow((0.2 + 0.055) / 1.055, 2.4), 5); // IEC 61966-2-1 decode of V = 0.2
 
     const dir2 = folder();
     const half = new Uint16Array(16 * 8 * 3).fill(32768); // V ≈ 0.5 → 0.214041 (IEC 61966-2-1)
     await write16(join(dir2, 'b_1kV.png'), half, 16, 8, 'png');
-    const png = await readStillsSeries(dir2, {});
+    const png = await readStillsSeries(dir2, whole);
     expect(png.transfers).toEqual(['srgb']);
     expect(Math.abs(png.roiLinear[0]! - 0.214041)).toBeLessThan(2e-5);
   });
@@ -330,6 +332,17 @@ describe('readStillsSeries', () => {
       const e = await errorOf(readStillsSeries(dir, { roi: { x: 150, y: 0, w: 20, h: 10 } }));
       expect(e.code).toBe('BAD_REGION');
       expect(e.line).toMatch(/--roi reaches x = 170, outside the 160x120 frame/);
+    });
+
+    it('a dark region on the beam (given or found) is refused: it would subtract signal', async () => {
+      const dir = folder();
+      for (const [k, v] of [0, 2000, 4000, 6000, 8000, 10000].entries()) await writeJpeg(join(dir, `p${k}_${v}V.jpg`), { beam: 0.05 + 0.05 * k });
+      const onBeam = { x: 70, y: 50, w: 10, h: 10 };
+      const given = await errorOf(readStillsSeries(dir, { roi: BEAM_ROI, darkRoi: onBeam }));
+      expect(given.code).toBe('BAD_REGION');
+      expect(given.line).toMatch(/the dark region 70,50,10,10 overlaps the beam region/);
+      const found = await errorOf(readStillsSeries(dir, { darkRoi: onBeam }));
+      expect(found.line).toMatch(/the dark region 70,50,10,10 overlaps the beam region \(found automatically\)/);
     });
   });
 });

@@ -139,7 +139,7 @@ describe('kerrtrace stills (real CLI)', () => {
     expect(row(11).slice(6)).toEqual(['0', 'clipped']);
     expect(Math.abs(Number(row(7)[3]) - beamAt(10000))).toBeLessThan(0.01); // intensity in linear units of the first photo's exposure
     const csv = readFileSync(join(out, 'stills.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toBe('frame,file,voltage_V,roi_linear,dark_linear,reference_linear,exposure_relative,clipped_fraction,transfer,bit_depth');
+    expect(csv[0]).toBe('frame,file,voltage_V,roi_linear,dark_linear,reference_linear,exposure_relative,clipped_fraction,transfer,bit_depth,surround_linear');
     expect(csv[2]!.split(',').slice(0, 3)).toEqual(['1', 'step01_2.0kV.jpg', '2000']);
     expect(Number(csv[2]!.split(',')[6])).toBeCloseTo(0.5, 9);
 
@@ -152,6 +152,24 @@ describe('kerrtrace stills (real CLI)', () => {
     expect(readResult(out).label).toBe('cell A, photos');
     expect(existsSync(join(out, 'report.html'))).toBe(false);
     expect(existsSync(join(out, 'trace.csv'))).toBe(true);
+  });
+
+  it('without --roi the beam is found and its surround subtracted: B within 3 %, warned as auto-region, drawn on regions.png', () => {
+    const out = join(work.dir, 'out-auto');
+    const r = stills([photos, '--length-mm', '50', '--gap-mm', '5', '--out', out, '--quiet', '--no-report']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const result = readResult(out);
+    expect(result.regions.beamAuto).toBe(true);
+    const b = result.regions.beam;
+    expect(b.x <= 80 && b.x + b.w >= 80 && b.y <= 60 && b.y + b.h >= 60).toBe(true); // the disc's centre (stillsFixtures)
+    expect(result.regions.surround).toBeDefined();
+    expect(result.warnings.map((w) => w.code)).toContain('auto-region');
+    expect(Math.abs(result.kerrConstant.value / B - 1)).toBeLessThan(0.03);
+    expect(result.frames.excluded).toEqual({ clipped: 1 });
+    expect(existsSync(join(out, 'regions.png'))).toBe(true);
+    const csv = readFileSync(join(out, 'stills.csv'), 'utf8').trim().split('\n');
+    expect(Number(csv[1]!.split(',').at(-1))).toBeGreaterThan(0); // surround_linear: ambient and black level around the disc
   });
 
   it('a phone-like series (auto exposure tracked by a grey card, flicker, pixel noise): B within 3 %', () => {
@@ -183,10 +201,13 @@ describe('kerrtrace stills (real CLI)', () => {
 
   it('a sweep to 0.44 V_pi is not identifiable; --open-level or --open-photo fixes the amplitude and makes it so (DESIGN.md, identifiability)', () => {
     const free = stills([lowSweep, '--length-mm', '50', '--gap-mm', '5', ...REGIONS, '--out', join(work.dir, 'low-free')]);
-    expect(free.code).toBe(0);
+    // the not-identifiable gate (as analyze): the run is written, marked not valid, and the exit code is 3
+    expect(free.code).toBe(3);
+    expect(free.stderr).toMatch(/^kerrtrace: the run failed a check: .*marked not valid/);
     expect(free.stdout).toMatch(/Kerr constant B\s+not identifiable/);
     const freeResult = readResult(join(work.dir, 'low-free'));
     expect(freeResult.identifiable).toBe(false);
+    expect(freeResult.validity).toMatchObject({ valid: false, failures: [{ gate: 'not-identifiable' }] });
     expect(freeResult.warnings.find((w) => w.code === 'not-identifiable')).toMatchObject({ guideSection: 'open-level' });
     expect(freeResult.options.timeBasis).toBe('photo-index');
 

@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import sharp from 'sharp';
-import { overlayPhotoIndex, stillsRegionOverlay } from '../../src/stills/stillsRegionOverlay.js';
+import { overlayPhotoIndex, stillsOverlayRegions, stillsRegionOverlay } from '../../src/stills/stillsRegionOverlay.js';
 import { readStillsSeries } from '../../src/stills/readStillsSeries.js';
 import { BEAM_ROI, DARK_ROI, tempFolder, writeJpeg } from './stillsFixtures.js';
 
@@ -27,5 +27,15 @@ describe('stillsRegionOverlay', () => {
     const { data, info } = await sharp(png).raw().toBuffer({ resolveWithObject: true });
     const centre = data[(240 * info.width + 320) * info.channels]!;
     expect(centre).toBeGreaterThan(150);
+  });
+
+  it('without a dark region the surround rings are drawn as an annulus (inner edge of ring A to outer edge of ring B); a found beam is labelled so', async () => {
+    const series = await readStillsSeries(t.dir, { roi: BEAM_ROI });
+    const regions = stillsOverlayRegions(series);
+    expect(regions.map((r) => r.kind)).toEqual(['beam', 'surround']);
+    expect(regions[1]).toMatchObject({ rect: series.surround!.b1, innerRect: series.surround!.a0 });
+    expect(stillsOverlayRegions({ ...series, beamAuto: true })[0]!.label).toBe('beam (found)');
+    const withDark = await readStillsSeries(t.dir, { roi: BEAM_ROI, darkRoi: DARK_ROI });
+    expect(stillsOverlayRegions(withDark).map((r) => r.kind)).toEqual(['beam', 'dark']);
   });
 });

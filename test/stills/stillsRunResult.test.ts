@@ -19,7 +19,7 @@ function series(volts: number[], extra: Partial<StillsSeries> = {}): StillsSerie
   return {
     voltageV: Float64Array.from(volts), intensity, files: volts.map((v, i) => `p${i}_${v}V.jpg`), clippedFraction: new Float64Array(n),
     exposureRelative: new Float64Array(n).fill(1), warnings: [{ code: 'exposure-unknown', message: 'cannot tell', guideSection: 'lock-exposure' }], width: 160, height: 120,
-    notes: ['a note'], roi: { x: 10, y: 10, w: 20, h: 20 }, roiIsWholeFrame: false, darkRoi: null, referenceRoi: null,
+    notes: ['a note'], roi: { x: 10, y: 10, w: 20, h: 20 }, beamAuto: false, surround: null, surroundLinear: null, darkRoi: null, referenceRoi: null,
     roiLinear: intensity.slice(), darkLinear: null, referenceLinear: null, exposureBasis: 'none', exposureFactors: [], voltageSource: 'file-names',
     transfers: volts.map(() => 'srgb' as const), bitDepths: volts.map(() => 8), unreadable: volts.map(() => null), captureTimeS: null, leftOut: [], openPhoto: null,
     ...extra,
@@ -140,5 +140,36 @@ describe('stillsRunResult', () => {
     } finally {
       t.cleanup();
     }
+  });
+});
+
+describe('stillsRunResult: budget and gates as for video', () => {
+  it('B and V_π carry the combined uncertainty of the budget (no sync term), contrast has its error, the run is valid', () => {
+    const s = series(SWEEP);
+    s.intensity.forEach((_, i) => (s.intensity[i]! += 0.002 * [1, -1, 0.5, -0.5, 0.8, -0.3, 0.1, -0.7, 0.4, -0.2, 0.6][i]!));
+    const { result } = run(s, { budget: { voltsAccuracyPercent: 1, gapToleranceM: 5e-5, lengthToleranceM: 1e-4 } });
+    expect(result.uncertainty!.kerrConstant.terms.find((t) => t.name === 'sync')!.relative).toBe(0);
+    expect(result.kerrConstant.stdErr).toBeCloseTo(result.uncertainty!.kerrConstant.combinedStdErr, 25);
+    // gap 5 ± 0.05 mm: 2·0.05/√3/5 = 1.155 % on B; with the meter's 1.155 % the combined error exceeds 1.6 %
+    expect(result.kerrConstant.stdErr! / result.kerrConstant.value).toBeGreaterThan(0.016);
+    expect(result.contrastRatio.stdErr).toBeGreaterThan(0);
+    expect(result.validity).toEqual({ valid: true, failures: [] });
+  });
+
+  it('with repeated voltages the photo noise is known: a voltage map that belongs to other photos fails the residual gate (marked not valid); the right map passes', () => {
+    const volts = [...SWEEP, ...SWEEP];
+    const wiggle = [1, -1, 0.5, -0.5, 0.8, -0.3, 0.1, -0.7, 0.4, -0.2, 0.6, -0.9, 0.3, 0.7, -0.4, -0.6, 0.9, 0.2, -0.8, 0.5, -0.1, 0.35];
+    const s = series(volts);
+    s.intensity.forEach((_, i) => (s.intensity[i]! += 0.002 * wiggle[i]!));
+    expect(run(s).result.validity).toEqual({ valid: true, failures: [] });
+    const shuffled = [7000, 13000, 0, 11000, 2000, 9000, 4000, 12000, 6000, 10000, 8000];
+    const wrong = { ...s, voltageV: Float64Array.from([...shuffled, ...shuffled]) };
+    const { result } = run(wrong);
+    expect(result.validity!.valid).toBe(false);
+    expect(result.validity!.failures.map((f) => f.gate)).toContain('residual-excess');
+  });
+
+  it('without repeats the residual gate does not apply: no noise estimate is recorded', () => {
+    expect(run(series(SWEEP)).result.fit.residualOverFrameNoise).toBeNaN();
   });
 });
