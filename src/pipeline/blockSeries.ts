@@ -7,15 +7,19 @@
  * the pixel fraction (see src/measure/blockMeter).
  *
  * Units: linear light (0..1); clipped is a fraction.
- * @throws nothing; the box must lie on the grid (cellBoxToRect geometry).
+ * @throws KerrError INTERNAL for a store without clip bits (decodePass always makes them); the box
+ *   must lie on the grid (cellBoxToRect geometry).
  * @example
  * const beam = blockSeries(pass.grid, { x0: 70, y0: 40, x1: 82, y1: 52 });
  */
+import { KerrError } from '../errors.js';
 import type { CellBox } from '../core/regions/cellGeometry.js';
 import { newSeries, type GridStore, type RegionSeries } from './decodePass.js';
 
 export function blockSeries(grid: GridStore, box: CellBox): RegionSeries {
   const { frames, gridWidth } = grid;
+  const clipBits = grid.clipped;
+  if (!clipBits) throw new KerrError('INTERNAL', 'the block store has no clip bits, so a region cannot be measured from it');
   const cells = grid.gridWidth * grid.gridHeight;
   const out = newSeries(frames);
   const count = (box.x1 - box.x0 + 1) * (box.y1 - box.y0 + 1);
@@ -37,7 +41,7 @@ export function blockSeries(grid: GridStore, box: CellBox): RegionSeries {
       const row = off + y * gridWidth;
       for (let x = box.x0; x <= box.x1; x++) {
         const bit = row + x;
-        clipped += (grid.clipped[bit >> 3]! >> (bit & 7)) & 1;
+        clipped += (clipBits[bit >> 3]! >> (bit & 7)) & 1;
       }
     }
     out.clipped[f] = clipped / count;

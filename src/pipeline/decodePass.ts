@@ -35,8 +35,8 @@ export interface GridStore {
   gridHeight: number;
   /** Block size in pixels (0 when no overview was read). */
   step: number;
-  /** Bit f·cells + c is set when block c of frame f is clipped (see blockMeter); empty without an overview. */
-  clipped: Uint8Array;
+  /** Bit f·cells + c is set when block c of frame f is clipped (see blockMeter); always set by decodePass. */
+  clipped?: Uint8Array;
   /** Linear R, G, B per block, laid out like `data`, when channels were asked for. */
   rgb?: { r: Float32Array; g: Float32Array; b: Float32Array };
 }
