@@ -187,7 +187,7 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
     // same pass (colour-decoded block means; docs/analyze.md gives the measured difference from a
     // full-resolution read): no second decode.
     beamAndRings = boxes.map((box) => blockSeries(grid, box));
-    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
+    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px and measured with its surround from ${grid.step}×${grid.step}-pixel block means (a sharp-edged spot reads a little low at its brightest); check it in the report, or give --roi for a full-resolution read`);
   }
 
   // ---- the background under the beam ----
