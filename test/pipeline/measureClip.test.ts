@@ -36,4 +36,15 @@ describe('measureClip: one decode of the clip', () => {
     expect(starts).toEqual(['decoding']);
     expect(clip.beamAuto).toBe(false);
   });
+
+  it('turns the stream\'s timing remarks into run warnings (a container with fewer timestamps than frames)', async () => {
+    const o: ClipOptions = { videoPath, roi: { x: 110, y: 70, w: 41, h: 41 } };
+    const opened = await openClip(o);
+    // Drop the last 5 timestamps, as a container that lists fewer than it holds would.
+    const probe = { ...opened.probe, frameTimesS: opened.probe.frameTimesS.slice(0, -5) };
+    const clip = await measureClip({ ...opened, probe }, o);
+    const notes = clip.warnings.filter((w) => w.code === 'probe' && /more frames than the container has timestamps/.test(w.message));
+    expect(notes).toHaveLength(1);
+    expect(clip.nFrames).toBe(opened.probe.frameTimesS.length);
+  });
 });
