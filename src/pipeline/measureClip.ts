@@ -75,11 +75,14 @@ export interface ClipHooks {
   onProgress?: (stage: string, done: number, total: number) => void;
 }
 
-/** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
-export function chooseGridStep(info: VideoInfo): number {
+/**
+ * Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values (240 MB of
+ * Float32) over `arrays` per-block arrays (1: luminance; 4 with the three channels).
+ */
+export function chooseGridStep(info: VideoInfo, arrays = 1): number {
   let step = Math.max(2, Math.ceil(info.width / 160));
   const frames = Math.max(1, info.frameCount);
-  while ((info.width / step) * (info.height / step) * frames > 60e6) step++;
+  while ((info.width / step) * (info.height / step) * frames * arrays > 60e6) step++;
   return step;
 }
 
@@ -144,9 +147,10 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   }
   if (o.darkRoi) add('dark', o.darkRoi);
   if (o.referenceRoi) add('reference', o.referenceRoi);
-  const step = chooseGridStep(info);
+  const channels = o.channels === 'rgb' && !o.roi;
+  const step = chooseGridStep(info, channels ? 4 : 1);
   const pass = await decodePass(probe, decoding, {
-    regions, overviewStep: step, ringRowStride: 2, channels: o.channels === 'rgb' && !o.roi,
+    regions, overviewStep: step, ringRowStride: 2, channels,
     ...(hooks.onProgress ? { onProgress: (d: number, t: number) => hooks.onProgress!('decoding', d, t) } : {}),
   });
   for (const note of pass.notes) warn('probe', note);
