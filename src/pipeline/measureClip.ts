@@ -1,8 +1,12 @@
 /**
  * The decode-and-measure stage of analyze: probe the clip, choose its decoding, read every frame
- * once (frame times, the decimated luminance grid for beam finding, flashes and maps, and
- * full-resolution colour means of the beam, its surround rings and the user's regions), find the
- * beam when no region was given, and measure an open-level clip when one was given.
+ * ONCE (decodePass.ts: frame times, the colour-decoded block store for beam finding, flashes and
+ * maps, and full-resolution colour means of the given beam, its surround rings and the user's
+ * regions), find the beam when no region was given and measure it and its rings from the block
+ * store of the same pass (blockSeries.ts; whole blocks, block means: docs/analyze.md "Data flow"
+ * gives the measured difference from a pixel read), and measure an open-level clip when one was
+ * given (its own decode). The probe's, the decoder's and the stream's remarks become warnings.
+ * `ClipMeasurement.beam.r/g/b` of a found beam are NaN unless `channels: 'rgb'` was asked for.
  *
  * It returns per-frame series only: exposure correction, exclusions, sync and the fit come after
  * (src/pipeline/analyze.ts). Files and processes are touched here and in src/media only.
