@@ -51,12 +51,6 @@ export function createBlockMeter(gridWidth: number, gridHeight: number, decoding
   const toCode = 1 / 2 ** (16 - sourceBitDepth);
   const { linear, perCode, clipThreshold } = t;
   const cells = gridWidth * gridHeight;
-  const lin = (code: number): number => {
-    const c = (code <= 0 ? 0 : code >= 255 ? 255 : code) * perCode;
-    const i = c | 0;
-    const lo = linear[i]!;
-    return lo + (c - i) * (linear[i + 1]! - lo);
-  };
   return {
     gridWidth,
     gridHeight,
@@ -80,7 +74,20 @@ export function createBlockMeter(gridWidth: number, gridHeight: number, decoding
           const bit = bitOffset + c;
           clipped[bit >> 3] |= 1 << (bit & 7);
         }
-        const r = lin(rc), g = lin(gc), b = lin(bc);
+        // linear light by interpolation in the table, written out (no helper call per channel, so
+        // the values stay unboxed doubles)
+        let x = (rc <= 0 ? 0 : rc >= 255 ? 255 : rc) * perCode;
+        let i = x | 0;
+        let lo = linear[i]!;
+        const r = lo + (x - i) * (linear[i + 1]! - lo);
+        x = (gc <= 0 ? 0 : gc >= 255 ? 255 : gc) * perCode;
+        i = x | 0;
+        lo = linear[i]!;
+        const g = lo + (x - i) * (linear[i + 1]! - lo);
+        x = (bc <= 0 ? 0 : bc >= 255 ? 255 : bc) * perCode;
+        i = x | 0;
+        lo = linear[i]!;
+        const b = lo + (x - i) * (linear[i + 1]! - lo);
         luma[c] = LUMA_WEIGHTS.r * r + LUMA_WEIGHTS.g * g + LUMA_WEIGHTS.b * b;
         if (rgb) { rgb.r[c] = r; rgb.g[c] = g; rgb.b[c] = b; }
       }
