@@ -2,21 +2,24 @@
  * Benchmark cases for the analyze job (the project's issue: the whole analyze run with maps stays
  * within 1.3× the time of decoding the clip once). The clip is simulated bench footage with known
  * truth (1920×1080, 30 fps, 30 s, a noisy sensor, made once by the project's simulator and kept in bench/.cache/),
- * so the analysis does real work: sync, fit, maps, scatter figures.
+ * so the analysis does real work: sync, fit, maps, scatter figures. Each analyze runs in a child
+ * process (bench/analyzeChild.ts) so its peak memory is its own; (g) runs a 5-minute concatenation
+ * of the same run once, to show how memory grows with clip length.
  */
-import { execFile } from 'node:child_process';
-import { existsSync, readFileSync, renameSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { execFile, spawn } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { ffmpegPath } from '../src/media/ffmpegPaths.js';
 import { parseScenario } from '../src/sim/scenario.js';
 import { simulateRun } from '../src/sim/simulate.js';
-import { analyzeWithProducts } from '../src/pipeline/analyzeWithProducts.js';
 import type { Rect } from '../src/media/types.js';
-import { childrenCpuS, selfCpuS } from './cpuTime.js';
+import { childrenCpuS } from './cpuTime.js';
 import type { BenchCase, CaseOutcome } from './timeIt.js';
 
 const execFileAsync = promisify(execFile);
+const here = dirname(fileURLToPath(import.meta.url)); // dist/bench
 
 const SCENARIO = {
   label: 'benchmark: 1080p ramps with a dirty liquid and a noisy phone sensor',
@@ -53,25 +56,71 @@ async function decodeToNull(clip: string, frames: number): Promise<CaseOutcome> 
   return { frames, cpuS: childrenCpuS() - before };
 }
 
-async function analyze(dir: string, roi: Rect | undefined): Promise<CaseOutcome> {
-  const before = selfCpuS() + childrenCpuS();
-  const { out, products } = await analyzeWithProducts(
-    { videoPath: join(dir, 'clip.mp4'), voltsPath: join(dir, 'volts.csv'), lengthMm: 50, gapMm: 5, ...(roi ? { roi } : {}) },
-    { toolVersion: 'bench', ffmpegVersion: null },
-  );
-  if (!products) throw new Error('no maps were made');
-  return {
-    frames: out.result.frames.total,
-    cpuS: selfCpuS() + childrenCpuS() - before,
-    extra: { B: `${out.result.kerrConstant.value.toExponential(3)} m/V^2`, maps: `${out.grid.gridWidth}×${out.grid.gridHeight}` },
-  };
+/** The analyze job in a child process (bench/analyzeChild.ts): time, CPU, peak RSS and the decodes it started. */
+function analyzeInChild(dir: string, roi: Rect | undefined): Promise<CaseOutcome> {
+  return new Promise((resolveOutcome, reject) => {
+    const args = [join(here, 'analyzeChild.js'), dir, '50', '5', roi ? `${roi.x},${roi.y},${roi.w},${roi.h}` : 'auto'];
+    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    child.stdout.setEncoding('utf8');
+    child.stdout.on('data', (text: string) => { out += text; });
+    child.on('error', reject);
+    child.on('close', () => {
+      try {
+        const r = JSON.parse(out.trim().split('\n').pop() ?? '{}') as { frames?: number; seconds?: number; cpuS?: number; maxRssKb?: number; decodes?: number; B?: number; maps?: string; error?: string };
+        if (r.error !== undefined || r.frames === undefined || r.seconds === undefined) throw new Error(r.error ?? `no result from the child: ${out}`);
+        resolveOutcome({
+          frames: r.frames, seconds: r.seconds, ...(typeof r.cpuS === 'number' ? { cpuS: r.cpuS } : {}),
+          extra: { B: `${(r.B ?? NaN).toExponential(3)} m/V^2`, maps: r.maps ?? '?', decodes: String(r.decodes ?? '?'), 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` },
+        });
+      } catch (e) {
+        reject(e);
+      }
+    });
+  });
 }
 
-export function analyzeCases(dir: string, roi: Rect, frames: number, repeats: number): BenchCase[] {
+/**
+ * A 5-minute run made from the 30 s one without re-encoding: the clip ten times through ffmpeg's
+ * concat demuxer (`-c copy`), and the voltage log's rows repeated with times shifted by the clip's
+ * length (the shared end/start row kept once). Made once, kept in bench/.cache/.
+ */
+export async function longBenchRun(cacheDir: string, shortDir: string, copies = 10): Promise<{ dir: string; frames: number }> {
+  const dir = join(cacheDir, `sim-1080p-${copies * 30}s`);
+  const shortTruth = JSON.parse(readFileSync(join(shortDir, 'truth.json'), 'utf8')) as { frameCount: number };
+  const frames = shortTruth.frameCount * copies;
+  if (existsSync(join(dir, 'volts.csv'))) return { dir, frames };
+  process.stdout.write(`making the ${copies * 30} s analyze benchmark run (once, by concatenation): ${dir}\n`);
+  const partial = `${dir}.partial`;
+  rmSync(partial, { recursive: true, force: true });
+  mkdirSync(partial, { recursive: true });
+  const list = join(partial, 'list.txt');
+  writeFileSync(list, Array.from({ length: copies }, () => `file '${join(shortDir, 'clip.mp4').replace(/'/g, "'\\''")}'`).join('\n') + '\n');
+  await execFileAsync(ffmpegPath(), ['-hide_banner', '-nostdin', '-v', 'error', '-y', '-f', 'concat', '-safe', '0', '-i', list, '-c', 'copy', join(partial, 'clip.mp4')]);
+  rmSync(list);
+  const lines = readFileSync(join(shortDir, 'volts.csv'), 'utf8').trim().split('\n');
+  const header = lines[0]!;
+  const rows = lines.slice(1).map((l) => l.split(',').map(Number) as [number, number]);
+  const spanS = shortTruth.frameCount / 30;
+  const out: string[] = [header];
+  for (let k = 0; k < copies; k++) {
+    for (const [t, v] of rows) {
+      if (k > 0 && t === 0) continue; // the previous copy's last row is at the same time
+      out.push(`${(t + k * spanS).toFixed(4)},${v}`);
+    }
+  }
+  writeFileSync(join(partial, 'volts.csv'), `${out.join('\n')}\n`);
+  renameSync(partial, dir);
+  return { dir, frames };
+}
+
+export function analyzeCases(dir: string, roi: Rect, frames: number, repeats: number, long?: { dir: string; frames: number }): BenchCase[] {
   const clip = join(dir, 'clip.mp4');
-  return [
+  const cases: BenchCase[] = [
     { name: '(d) ffmpeg decode to null, 1080p sim', run: () => decodeToNull(clip, frames), repeats },
-    { name: '(e) analyze with maps, --roi, 1080p sim', run: () => analyze(dir, roi), repeats },
-    { name: '(f) analyze with maps, beam found, 1080p sim', run: () => analyze(dir, undefined), repeats },
+    { name: '(e) analyze with maps, --roi, 1080p sim', run: () => analyzeInChild(dir, roi), repeats },
+    { name: '(f) analyze with maps, beam found, 1080p sim', run: () => analyzeInChild(dir, undefined), repeats },
   ];
+  if (long) cases.push({ name: '(g) analyze with maps, beam found, 5 min', run: () => analyzeInChild(long.dir, undefined) });
+  return cases;
 }

@@ -7,25 +7,10 @@
  * Usage: node dist/bench/traceChild.js VIDEO REGIONS_JSON [MAX_FRAMES|all] [whole]
  * (`whole`: send whole frames through one pipe instead of one crop per region).
  */
-import { readFileSync } from 'node:fs';
 import { traceVideo, type TraceOptions } from '../src/pipeline/trace.js';
 import type { Rect } from '../src/media/types.js';
 import { childrenCpuS, selfCpuS } from './cpuTime.js';
-
-/**
- * Peak resident memory of this process in kB: VmHWM from /proc/self/status, which starts afresh
- * at exec (getrusage's maxRSS keeps the parent's high-water mark across fork and exec on Linux, so
- * it would report the benchmark runner's memory, not this work's). Falls back to maxRSS elsewhere.
- */
-function peakRssKb(): number {
-  try {
-    const m = /VmHWM:\s+(\d+)\s+kB/.exec(readFileSync('/proc/self/status', 'utf8'));
-    if (m) return Number(m[1]);
-  } catch {
-    // not Linux
-  }
-  return process.resourceUsage().maxRSS;
-}
+import { peakRssKb } from './peakRss.js';
 
 const [video, regionsJson, maxFramesText, mode] = process.argv.slice(2);
 if (!video || !regionsJson) {

@@ -31,8 +31,18 @@ export function yuv420FrameBytes(width: number, height: number): number {
   return width * height + 2 * ((width + 1) >> 1) * ((height + 1) >> 1);
 }
 
-/** Raw planar 4:2:0 formats we ask ffmpeg for: 8-bit, or 16-bit little-endian words for deeper sources. */
-export type RawPixelFormat = 'yuv420p' | 'yuvj420p' | 'yuv420p10le' | 'yuv420p12le' | 'yuv420p16le';
+/**
+ * Raw planar formats we ask ffmpeg for: 4:2:0, 8-bit or 16-bit little-endian words for deeper
+ * sources; and 4:4:4 in 16-bit words for block overviews (each block's mean Y′, Cb, Cr kept with
+ * fractional precision).
+ */
+export type RawPixelFormat = 'yuv420p' | 'yuvj420p' | 'yuv420p10le' | 'yuv420p12le' | 'yuv420p16le' | 'yuv444p16le';
+
+/** Bytes of one frame of a raw format: 4:2:0 (see yuv420FrameBytes) or 4:4:4 (three full planes), 2 bytes a sample above 8 bits. */
+export function rawFrameBytes(format: RawPixelFormat, width: number, height: number): number {
+  const bytesPerSample = rawBitDepth(format) > 8 ? 2 : 1;
+  return bytesPerSample * (format === 'yuv444p16le' ? 3 * width * height : yuv420FrameBytes(width, height));
+}
 
 /** Bits per sample of a raw format (8 for the byte formats). */
 export function rawBitDepth(format: RawPixelFormat): number {
@@ -161,10 +171,7 @@ export function runRawPipes(plan: RawPipesPlan, opts: { onProgress?: (done: numb
   opts.signal?.addEventListener('abort', onAbort, { once: true });
 
   const pipes = plan.outputs.map((_o, k) => child.stdio[k === 0 ? 1 : k + 2] as Readable);
-  const readers = plan.outputs.map((o, k) => {
-    const bytesPerSample = rawBitDepth(o.pixelFormat ?? plan.pixelFormat) > 8 ? 2 : 1;
-    return new PipeFrameReader(pipes[k]!, new Uint8Array(bytesPerSample * yuv420FrameBytes(o.width, o.height)));
-  });
+  const readers = plan.outputs.map((o, k) => new PipeFrameReader(pipes[k]!, new Uint8Array(rawFrameBytes(o.pixelFormat ?? plan.pixelFormat, o.width, o.height))));
   const buffers = readers.map((r) => r.buffer);
   const times = plan.probe.frameTimesS;
   const medianIntervalS = plan.probe.frameIntervalS?.median ?? 0;

@@ -1,8 +1,12 @@
 /**
  * The decode-and-measure stage of analyze: probe the clip, choose its decoding, read every frame
- * once (frame times, the decimated luminance grid for beam finding, flashes and maps, and
- * full-resolution colour means of the beam, its surround rings and the user's regions), find the
- * beam when no region was given, and measure an open-level clip when one was given.
+ * ONCE (decodePass.ts: frame times, the colour-decoded block store for beam finding, flashes and
+ * maps, and full-resolution colour means of the given beam, its surround rings and the user's
+ * regions), find the beam when no region was given and measure it and its rings from the block
+ * store of the same pass (blockSeries.ts; whole blocks, block means: docs/analyze.md "Data flow"
+ * gives the measured difference from a pixel read), and measure an open-level clip when one was
+ * given (its own decode). The probe's, the decoder's and the stream's remarks become warnings.
+ * `ClipMeasurement.beam.r/g/b` of a found beam are NaN unless `channels: 'rgb'` was asked for.
  *
  * It returns per-frame series only: exposure correction, exclusions, sync and the fit come after
  * (src/pipeline/analyze.ts). Files and processes are touched here and in src/media only.
@@ -10,18 +14,16 @@
 import { KerrError } from '../errors.js';
 import type { Rect, VideoInfo, CameraDecoding } from '../media/types.js';
 import { probeMedia, type ProbeResult } from '../media/probe.js';
-import { openAnalysisStream } from '../media/analysisStream.js';
 import { decodingFor } from '../core/camera/decodingFor.js';
 import { decodingWarnings } from './decodingWarnings.js';
 import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
-import { createRegionMeter } from '../measure/regionMeter.js';
-import { createGridSampler } from '../measure/gridSampler.js';
+import { decodePass, type GridStore, type RegionSeries } from './decodePass.js';
+import { blockSeries } from './blockSeries.js';
 import { validateRect } from '../measure/rect.js';
 import { findBeam } from '../core/regions/findBeam.js';
 import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { surroundRings } from '../core/regions/surroundRings.js';
-import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import type { RunWarning } from '../result/schema.js';
 
@@ -34,15 +36,11 @@ export interface ClipOptions {
   openVideoPath?: string;
   transfer?: CameraDecoding['transfer'];
   cameraProfilePath?: string;
+  /** 'rgb': the per-channel series of an automatically found beam are kept too (4× the block store). */
+  channels?: 'rgb';
 }
 
-export interface GridStore {
-  data: Float32Array; // frames × cells
-  frames: number;
-  gridWidth: number;
-  gridHeight: number;
-  step: number;
-}
+export type { GridStore, RegionSeries } from './decodePass.js';
 
 /** Per-frame background under the beam: linear luminance and the three channels. */
 export interface BackgroundSeries {
@@ -81,114 +79,16 @@ export interface ClipHooks {
   onProgress?: (stage: string, done: number, total: number) => void;
 }
 
-/** Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values. */
-export function chooseGridStep(info: VideoInfo): number {
+/**
+ * Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values (240 MB of
+ * Float32) over `arrays` per-block arrays (1: luminance; 4 with the three channels).
+ */
+export function chooseGridStep(info: VideoInfo, arrays = 1): number {
   let step = Math.max(2, Math.ceil(info.width / 160));
   const frames = Math.max(1, info.frameCount);
-  while ((info.width / step) * (info.height / step) * frames > 60e6) step++;
+  while ((info.width / step) * (info.height / step) * frames * arrays > 60e6) step++;
   return step;
 }
-
-/** Per-frame means of one region: linear luminance, the three channels, and the clipped fraction. */
-export interface RegionSeries {
-  luma: Float64Array;
-  r: Float64Array;
-  g: Float64Array;
-  b: Float64Array;
-  clipped: Float64Array;
-}
-
-const SERIES_KEYS = ['luma', 'r', 'g', 'b', 'clipped'] as const;
-
-interface PassOutput {
-  times: Float64Array;
-  grid: GridStore;
-  regions: RegionSeries[];
-  frames: number;
-}
-
-function newSeries(cap: number): RegionSeries {
-  return { luma: new Float64Array(cap), r: new Float64Array(cap), g: new Float64Array(cap), b: new Float64Array(cap), clipped: new Float64Array(cap) };
-}
-
-function resizeSeries(s: RegionSeries, size: number): RegionSeries {
-  const out = newSeries(size);
-  for (const k of SERIES_KEYS) out[k].set(s[k].subarray(0, Math.min(size, s[k].length)));
-  return out;
-}
-
-/**
- * One decoding pass: frame times, the block overview (linear luminance per block, as if grey:
- * cheap, for finding the beam, flashes and maps) and full-resolution colour means of the regions.
- */
-async function decodePass(path: string, probe: ProbeResult, decoding: CameraDecoding, regions: Rect[], step: number | null, onProgress?: (done: number, total: number) => void): Promise<PassOutput> {
-  const info = probe.info;
-  // Regions nested inside the next one (beam ⊂ rings) share one crop and are measured as disjoint
-  // pieces, so every pixel is decoded into colour once.
-  const groups: number[][] = [];
-  for (let r = 0; r < regions.length; r++) {
-    const last = groups[groups.length - 1];
-    if (last && isNestedChain([regions[last[last.length - 1]!]!, regions[r]!])) last.push(r);
-    else groups.push([r]);
-  }
-  const outerOf = groups.map((g) => regions[g[g.length - 1]!]!);
-  let cap = Math.max(16, info.frameCount + 8);
-  let times = new Float64Array(cap);
-  const stream = openAnalysisStream(probe, outerOf, { ...(step ? { step } : {}), ...(onProgress ? { onProgress } : {}) });
-  const gw = stream.gridWidth;
-  const gh = stream.gridHeight;
-  const cells = gw * gh;
-  let grid = new Float32Array(step ? cap * cells : 0);
-  let series = regions.map(() => newSeries(cap));
-  const plans = groups.map((g, k) => {
-    const crop = stream.crops[k]!;
-    const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
-    const { pieces, ringOf } = nestedPieces(local);
-    // Rings (pieces outside the innermost region) hold slowly varying background: every other row.
-    const strides = ringOf.map((k) => (k > 0 ? 2 : 1));
-    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
-  });
-  const acc = new Float64Array(5);
-  const sampler = step ? createGridSampler(gw, gh, 1, decoding) : null;
-  let n = 0;
-  const growTo = (next: number) => {
-    const t2 = new Float64Array(next); t2.set(times); times = t2;
-    if (step) { const g2 = new Float32Array(next * cells); g2.set(grid); grid = g2; }
-    series = series.map((x) => resizeSeries(x, next));
-    cap = next;
-  };
-  for await (const frame of stream.frames) {
-    if (n >= cap) growTo(Math.ceil(cap * 1.5));
-    times[n] = frame.timeS;
-    if (sampler && frame.overview) sampler.sample(frame.overview, grid.subarray(n * cells, (n + 1) * cells));
-    for (let k = 0; k < plans.length; k++) {
-      const plan = plans[k]!;
-      const parts = plan.meter.measure(frame.regions[k]!);
-      acc.fill(0);
-      let piece = 0;
-      for (let m = 0; m < plan.members.length; m++) {
-        // cumulative sums: rect m = rect m−1 plus the pieces of ring m
-        while (piece < parts.length && plan.ringOf[piece] === m) {
-          const p = parts[piece]!;
-          const c = plan.pieces[piece]!.w * plan.pieces[piece]!.h; // the piece's area, also when rows were skipped
-          acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
-          piece++;
-        }
-        const x = series[plan.members[m]!]!;
-        const count = plan.counts[m]!;
-        x.luma[n] = acc[0]! / count; x.r[n] = acc[1]! / count; x.g[n] = acc[2]! / count; x.b[n] = acc[3]! / count; x.clipped[n] = acc[4]! / count;
-      }
-    }
-    n++;
-  }
-  return {
-    times: times.slice(0, n),
-    grid: { data: step ? grid.subarray(0, n * cells) : grid, frames: n, gridWidth: gw, gridHeight: gh, step: step ?? 0 },
-    regions: series.map((x) => resizeSeries(x, n)),
-    frames: n,
-  };
-}
-
 
 function backgroundOf(regions: RegionSeries[], weights: readonly number[] | null, nFrames: number): BackgroundSeries {
   const out: BackgroundSeries = { luma: new Float64Array(nFrames), r: new Float64Array(nFrames), g: new Float64Array(nFrames), b: new Float64Array(nFrames) };
@@ -251,11 +151,16 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   }
   if (o.darkRoi) add('dark', o.darkRoi);
   if (o.referenceRoi) add('reference', o.referenceRoi);
-  const step = chooseGridStep(info);
-  const pass = await decodePass(o.videoPath, probe, decoding, regions, step, hooks.onProgress ? (d, t) => hooks.onProgress!('decoding', d, t) : undefined);
+  const channels = o.channels === 'rgb' && !o.roi;
+  const step = chooseGridStep(info, channels ? 4 : 1);
+  const pass = await decodePass(probe, decoding, {
+    regions, overviewStep: step, ringRowStride: 2, channels,
+    ...(hooks.onProgress ? { onProgress: (d: number, t: number) => hooks.onProgress!('decoding', d, t) } : {}),
+  });
+  for (const note of pass.notes) warn('probe', note);
   const nFrames = pass.frames;
   if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', nFrames === 1 ? `${o.videoPath} has only one frame that can be decoded; at least 10 are needed` : `${o.videoPath} has only ${nFrames} frames that can be decoded; at least 10 are needed`, { hint: 'Record a longer clip' });
-  const { grid } = pass;
+  const grid = pass.grid!;
   const times = pass.times;
 
   // ---- beam and its rings ----
@@ -286,15 +191,11 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
     const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
     beamRect = cellBoxToRect(found.beam, grid.step);
     geom = { beam: beamRect, a0: cellBoxToRect(boxes[1], grid.step), a1: cellBoxToRect(boxes[2], grid.step), b1: cellBoxToRect(boxes[3], grid.step) };
-    // The grid reads luminance as if every pixel were grey, which is fast and fine for finding the
-    // beam but not proportional for coloured light; a second pass reads the beam and its rings at
-    // full resolution with the full colour decoding (the decode is the cost; the meter is cheap).
-    const second = await decodePass(o.videoPath, probe, decoding, [beamRect, geom.a0, geom.a1, geom.b1], null, hooks.onProgress ? (d, t) => hooks.onProgress!('measuring the beam', d, t) : undefined);
-    if (second.frames !== nFrames) {
-      throw new KerrError('TRUNCATED_MEDIA', `the second pass over ${o.videoPath} read ${second.frames} frames, the first ${nFrames}`, { hint: 'Check that the file is not being written while kerrtrace reads it' });
-    }
-    beamAndRings = second.regions;
-    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px; check it in the report or give --roi`);
+    // The beam and its rings are whole blocks, so they are measured from the block store of the
+    // same pass (colour-decoded block means; docs/analyze.md gives the measured difference from a
+    // full-resolution read): no second decode.
+    beamAndRings = boxes.map((box) => blockSeries(grid, box));
+    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px and measured with its surround from ${grid.step}×${grid.step}-pixel block means (a sharp-edged spot reads a little low at its brightest); check it in the report, or give --roi for a full-resolution read`);
   }
 
   // ---- the background under the beam ----
@@ -326,7 +227,8 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
     if (o.darkRoi) openRegions.push(o.darkRoi);
     else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
     const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
-    const openPass = await decodePass(o.openVideoPath, openProbe, decodingFor(openInfo, decodingOverrides), openRegions, null);
+    const openPass = await decodePass(openProbe, decodingFor(openInfo, decodingOverrides), { regions: openRegions, ringRowStride: 2 });
+    for (const note of openPass.notes) warn('probe', `open video: ${note}`);
     openVideoLevels = [];
     for (let f = 0; f < openPass.frames; f++) {
       let bg = 0;

@@ -2,9 +2,10 @@
  * The trace pipeline: one decoding pass over a video that measures the user's regions in every
  * frame (what `kerrtrace trace` prints, and the benchmark's case (b)).
  *
- * probe → camera decoding from the stream's tags (overridable) → region stream (one decode, each
- * region cropped inside ffmpeg and sent through its own pipe, so only those pixels reach Node) →
- * region meter per region → dark subtraction and exposure correction.
+ * probe → camera decoding from the stream's tags (overridable) → the decoding pass shared with
+ * analyze (decodePass.ts: one decode, each region cropped inside ffmpeg and sent through its own
+ * pipe, so only those pixels reach Node; regions nested in the next share one crop) → region meter
+ * → dark subtraction and exposure correction.
  *
  * Corrected series, per channel c and frame t: (roi_c,t − dark_c,t) / gain_t, with
  * gain_t = (ref_t − dark_t) / median(ref − dark) from the reference region's luminance
@@ -22,7 +23,7 @@
 import { KerrError } from '../errors.js';
 import { decodingFor, type DecodingChoice } from '../core/camera/decodingFor.js';
 import { openFrameStream, type FrameStreamOptions } from '../media/frameStream.js';
-import { openRegionStream, type RegionStreamOptions } from '../media/regionStream.js';
+import { decodePass } from './decodePass.js';
 import { probeMedia, type ProbeResult } from '../media/probe.js';
 import type { CameraDecoding, Rect, VideoInfo } from '../media/types.js';
 import { exposureGains, type ExposureGains } from '../measure/exposure.js';
@@ -139,7 +140,7 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
     n++;
   };
 
-  const common: RegionStreamOptions & FrameStreamOptions = { probe };
+  const common: FrameStreamOptions = { probe };
   if (opts.maxFrames !== undefined) common.maxFrames = opts.maxFrames;
   if (opts.onProgress) common.onProgress = opts.onProgress;
   if (opts.signal) common.signal = opts.signal;
@@ -152,16 +153,24 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
     crops = [{ x: 0, y: 0, w: info.width, h: info.height }];
     streamNotes = stream.notes;
   } else {
-    const stream = openRegionStream(path, all, common);
-    const layout = await stream.layout();
-    const meters = layout.crops.map((c, k) => createRegionMeter(c.w, c.h, [layout.offsets[k]!], decoding, undefined, layout.bitDepth));
-    const samples: RegionMeasurement[] = new Array<RegionMeasurement>(all.length);
-    for await (const set of stream) {
-      for (let k = 0; k < meters.length; k++) samples[k] = meters[k]!.measure(set.regions[k]!)[0]!;
-      record(set.timeS, samples);
+    // the decoding pass analyze uses (decodePass.ts): one decode, each region cropped inside ffmpeg
+    const pass = await decodePass(probe, decoding, {
+      regions: all,
+      ...(opts.maxFrames !== undefined ? { maxFrames: opts.maxFrames } : {}),
+      ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
+      ...(opts.signal ? { signal: opts.signal } : {}),
+    });
+    const samples: RegionMeasurement[] = all.map(() => ({ luma: 0, r: 0, g: 0, b: 0, pixelCount: 0, clippedFraction: 0, codeR: 0, codeG: 0, codeB: 0 }));
+    for (let f = 0; f < pass.frames; f++) {
+      for (let k = 0; k < all.length; k++) {
+        const x = pass.regions[k]!;
+        const m = samples[k]!;
+        m.luma = x.luma[f]!; m.r = x.r[f]!; m.g = x.g[f]!; m.b = x.b[f]!; m.clippedFraction = x.clipped[f]!;
+      }
+      record(pass.times[f]!, samples);
     }
-    crops = layout.crops;
-    streamNotes = stream.notes;
+    crops = pass.crops;
+    streamNotes = pass.notes;
   }
   notes.push(...streamNotes);
   timeS = timeS.slice(0, n);
