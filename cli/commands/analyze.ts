@@ -145,20 +145,17 @@ export function register(program: Command): void {
       const baseline = c.baseline ? await readRunResult(c.baseline) : undefined;
       let run;
       try {
-        run = await analyzeWithProducts(o, { ...versions, onProgress: (_s, d, t) => progress.update(d, t) }, {
-          ...(baseline ? { baseline: baseline.result } : {}),
+        run = await analyzeWithProducts(o, { ...versions, nodeVersion: process.version, startedAt: new Date(), onProgress: (_s, d, t) => progress.update(d, t) }, {
+          ...(baseline ? { baseline: baseline.result, baselineSource: baseline.source } : {}),
           products: c.maps !== false,
+          report: c.report !== false,
         });
       } finally {
         progress.stop();
       }
-      const { out, products } = run;
+      const { out } = run;
       const validity = out.result.validity;
-      if (baseline) out.result.inputs.baseline = baseline.source;
-      const written = await finishRun(out, {
-        outDir, force: c.force === true, report: c.report !== false,
-        ...(products ? { extraFiles: products.files, images: products.images } : {}),
-      });
+      const written = await finishRun(run, { outDir, force: c.force === true });
       if (c.json) {
         process.stdout.write(`${JSON.stringify(out.result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
       } else {
