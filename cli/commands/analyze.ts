@@ -122,7 +122,7 @@ export function register(program: Command): void {
     .option('--channels <rgb>', 'also fit B in the red, green and blue channels separately (white light)')
     .option('--no-robust', 'least squares without Huber down-weighting (the voltage-uncertainty weights stay)')
     .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')
-    .option('--no-maps', 'skip the static/modulated maps and scatter figures')
+    .option('--no-maps', 'skip the pictures: static/modulated maps, regions.png and the halo-to-core ratio (every other figure is unchanged)')
     .option('--no-report', 'skip report.html, plots and summary.md')
     .option('--json', 'print result.json instead of the summary')
     .option('--quiet', 'no progress bar')

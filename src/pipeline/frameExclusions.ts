@@ -9,10 +9,10 @@
  *   open-window    inside --open-window (the analyser parallel; these frames give the open level)
  *   open-turning   within OPEN_TURNING_MARGIN_S of the open window (the analyser being turned)
  *   particle       a short positive excursion of the beam intensity above a model of it that needs
- *                  no fit (`particleExclusions`): spikeFreeTrend, the larger of its running
- *                  median over time (keeps the steps of a stepped drive) and its robust local
- *                  quadratic trend (keeps the smooth peaks of a sweep, which a median cuts off);
- *                  judged by detectParticleEvents against the local noise.
+ *                  no fit (`particleExclusions`): spikeFreeTrend, the largest of its running
+ *                  median (keeps steps), a robust local quadratic (keeps smooth peaks) and, at a
+ *                  sharp turn of the sweep, robust lines from either side; judged by
+ *                  detectParticleEvents against the local noise.
  *   exposure-jump  a persistent step of the background outside the beam (detectExposureJumps)
  *
  * The sync (syncRun) then adds log-gap (the log has a gap there) and outside-log; the sync
@@ -46,10 +46,9 @@ import type { CorrectedSeries } from './correctedSeries.js';
 export const OPEN_TURNING_MARGIN_S = 1.5;
 
 /**
- * Half-width of the running median and the local quadratic that stand in for the model when
- * particles are looked for, s: longer than a particle passage (a few tenths of a second) so that
- * neither follows one, short against the steps and ramps of a drive (this tool's choice;
- * docs/analyze.md).
+ * Half-width of the trends that stand in for the model when particles are looked for, s: longer
+ * than a particle passage (a few tenths of a second) so that none follows one, short against the
+ * steps and ramps of a drive (this tool's choice; docs/scatter.md, particleEventRate).
  */
 export const PARTICLE_MEDIAN_HALF_WINDOW_S = 0.5;
 

@@ -6,11 +6,13 @@
  *
  *   minimise Σ w_s·(x_s − a − b·u_s − c·u_s²)²,   u_s = time_s − time_t,   trend_t = a
  *
- * with w_s = 1 first, then `iterations` (default 3) rounds of bisquare weights
+ * with w_s = 1 first, then `iterations` (default 3, as in Cleveland's LOWESS) rounds of bisquare weights
  * w_s = (1 − (r_s / (4.685·σ))²)² for |r_s| < 4.685·σ, else 0, where r are the residuals of the
  * previous round and σ = 1.4826·MAD(r) of the window (Hampel 1974). A smooth peak or trough of
- * the series is followed (a running median would cut it off); short excursions covering well
- * under half the window get no weight.
+ * the series is followed (a running median would cut it off); a short excursion loses its weight
+ * over the rounds, but a large one that pulled the first (unweighted) fit far is only partly
+ * removed after three rounds: the quadratic alone is not a spike-free model (spikeFreeTrend
+ * pairs it with a running median).
  *
  * Units: those of `values`; times in s. Returns NaN for frames not included. Pure; never mutates
  * its inputs. Throws KerrError INTERNAL for series of different length.
