@@ -4,9 +4,10 @@
  * leave frames out for several reasons: sparks-halo (sparks, particles, steps, a halo) and
  * vfr-phone without its reference region (a spark and an exposure change that only the background
  * shows; before the exclusions were decided once, the maps' stage found it and refitted, so B
- * moved with --no-maps).
+ * moved with --no-maps). Also: the record takes the clock, versions and input hashes as given.
  */
 import { readFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { analyzeWithProducts } from '../../src/pipeline/analyzeWithProducts.js';
 import type { AnalyzeOptions } from '../../src/pipeline/analyze.js';
@@ -60,5 +61,21 @@ describe('--no-maps leaves every headline figure bit-identical', () => {
     // the record's file list says what the folder will hold, maps or not
     expect(Object.values(a.files)).toContain('regions.png');
     expect(Object.values(b.files)).not.toContain('regions.png');
+  });
+
+  it('takes the clock, the versions and the input hashes as given, hashed from the files themselves', async () => {
+    const o = options('cfr-ramp');
+    const hooks = { toolVersion: 'test-1', ffmpegVersion: 'ff-x', nodeVersion: 'v20.0.0-test', startedAt: new Date(0) };
+    const { out } = await analyzeWithProducts(o, hooks, { products: false, report: true });
+    const r = out.result;
+    expect(r.createdAt).toBe('1970-01-01T00:00:00.000Z');
+    expect(r.tool).toEqual({ name: 'kerrtrace', version: 'test-1', ffmpegVersion: 'ff-x', node: 'v20.0.0-test' });
+    // SHA-256 computed here with node:crypto over the whole file, independently of src/io/sha256File
+    const sha = (p: string) => createHash('sha256').update(readFileSync(p)).digest('hex');
+    expect(r.inputs.video).toEqual({ path: o.videoPath, sha256: sha(o.videoPath) });
+    expect(r.inputs.volts).toEqual({ path: o.voltsPath, sha256: sha(o.voltsPath) });
+    // the report's files are listed before anything is written
+    expect(r.files.report).toBe('report.html');
+    expect(r.files.summary).toBe('summary.md');
   });
 });
