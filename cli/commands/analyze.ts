@@ -90,7 +90,7 @@ export function register(program: Command): void {
     .option('--channels <rgb>', 'also fit B in the red, green and blue channels separately (white light)')
     .option('--no-robust', 'least squares without Huber down-weighting (the voltage-uncertainty weights stay)')
     .option('--baseline <result>', 'result.json (or its folder) of the polarisers without the cell or with a clean liquid, to split the floor')
-    .option('--no-maps', 'skip the static/modulated maps and scatter figures')
+    .option('--no-maps', 'skip the pictures: static/modulated maps, regions.png and the halo-to-core ratio (every other figure is unchanged)')
     .option('--no-report', 'skip report.html, plots and summary.md')
     .option('--json', 'print result.json instead of the summary')
     .option('--quiet', 'no progress bar')
@@ -113,20 +113,17 @@ export function register(program: Command): void {
       const baseline = c.baseline ? await readRunResult(c.baseline) : undefined;
       let run;
       try {
-        run = await analyzeWithProducts(o, { ...versions, onProgress: (_s, d, t) => progress.update(d, t) }, {
-          ...(baseline ? { baseline: baseline.result } : {}),
+        run = await analyzeWithProducts(o, { ...versions, nodeVersion: process.version, startedAt: new Date(), onProgress: (_s, d, t) => progress.update(d, t) }, {
+          ...(baseline ? { baseline: baseline.result, baselineSource: baseline.source } : {}),
           products: c.maps !== false,
+          report: c.report !== false,
         });
       } finally {
         progress.stop();
       }
-      const { out, products } = run;
+      const { out } = run;
       const validity = out.result.validity;
-      if (baseline) out.result.inputs.baseline = baseline.source;
-      const written = await finishRun(out, {
-        outDir, force: c.force === true, report: c.report !== false,
-        ...(products ? { extraFiles: products.files, images: products.images } : {}),
-      });
+      const written = await finishRun(run, { outDir, force: c.force === true });
       if (c.json) {
         process.stdout.write(`${JSON.stringify(out.result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
       } else {

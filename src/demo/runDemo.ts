@@ -69,7 +69,7 @@ async function writeDemo(o: DemoOptions, outDir: string): Promise<DemoOutput> {
     const scenario = parseScenario(scenarioJson, `built-in demo scenario "${name}"`);
     await simulateRun(scenario, simDir, { force: true, ...(o.onProgress ? { onProgress: (d: number, t: number) => o.onProgress!(`render ${name}`, d, t) } : {}) });
     o.onStage?.(`analysing the ${name} run`);
-    const { out, products } = await analyzeWithProducts(
+    const run = await analyzeWithProducts(
       {
         videoPath: join(simDir, 'clip.mp4'),
         voltsPath: join(simDir, 'volts.csv'),
@@ -82,10 +82,8 @@ async function writeDemo(o: DemoOptions, outDir: string): Promise<DemoOutput> {
       },
       { toolVersion: o.toolVersion, ffmpegVersion: o.ffmpegVersion, ...(o.onProgress ? { onProgress: (s: string, d: number, t: number) => o.onProgress!(`analyse ${name}`, d, t) } : {}) },
     );
-    const dir = await finishRun(out, {
-      outDir: join(outDir, name, 'analysis'), force: true, report: true,
-      ...(products ? { extraFiles: products.files, images: products.images } : {}),
-    });
+    const dir = await finishRun(run, { outDir: join(outDir, name, 'analysis'), force: true });
+    const { out } = run;
     runs.push({ name, dir, out });
   }
   // A photo series of the purified liquid, for `kerrtrace stills` (printed as the next command).

@@ -15,7 +15,6 @@ export const EXCLUSION_REASONS = {
   'outside-log': 'the frame lies before or after the voltage log',
   particle: 'a particle crossed the beam',
   'exposure-jump': 'a sudden exposure change the reference region could not correct',
-  event: 'an event found on the maps that matched no known kind',
   'not-finite': 'the photo gave no finite intensity or voltage',
   unreadable: 'the photo could not be read',
 } as const satisfies Record<string, string>;

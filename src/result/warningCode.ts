@@ -41,7 +41,7 @@ export const WARNING_CODES = {
   hysteresis: 'B differs between rising and falling voltage beyond its uncertainty',
   'hysteresis-not-measured': 'rising and falling sweeps could not be compared',
   'no-electrode-height': 'the log has a current column but no electrode height was given, so no resistivity',
-  'no-current': 'the log could not be read again for its current column, so no resistivity',
+  'reference-candidate': 'a bright steady area on the maps that could serve as the exposure reference region',
   'overlay-frame': 'the regions were drawn on a picture rebuilt from the maps (no frame could be grabbed)',
   // stills: photo series
   'photos-not-in-map': 'photos in the folder but not in the voltage table were left out',

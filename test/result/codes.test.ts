@@ -56,7 +56,7 @@ describe('exclusion reasons', () => {
 
   it('finds the reasons the sources assign (the scan itself works)', () => {
     const reasons = new Set(uses.map((u) => u.code));
-    for (const known of ['spark', 'clipped', 'open-window', 'outside-log', 'particle', 'unreadable', 'not-finite', 'event']) expect(reasons).toContain(known);
+    for (const known of ['spark', 'clipped', 'open-window', 'outside-log', 'particle', 'unreadable', 'not-finite']) expect(reasons).toContain(known);
   });
 
   it('every reason assigned in src/pipeline, src/stills or cli/ is an ExclusionReason', () => {

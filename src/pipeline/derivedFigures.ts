@@ -1,0 +1,117 @@
+/**
+ * Figures derived from the run's one fit: the floor fraction I_floor/I_amp, the contrast ratio
+ * (brightest over darkest model level over the voltages used), the linearised cross-check, the
+ * camera-response check and record (docs/camera-response.md) and, with --channels rgb, B per
+ * colour channel (each fitted with its own amplitude near the luminance fit's V_π).
+ *
+ * Errors by first-order propagation, correlations ignored:
+ *   floor fraction: σ = |f|·√((σ_floor/floor)² + (σ_amp/amp)²);
+ *   a model level I = I_floor + I_amp·t: σ_I² = σ_floor² + t²·σ_amp², t = (I − I_floor)/I_amp;
+ *   contrast C = hi/lo: σ_C = C·√((σ_hi/hi)² + (σ_lo/lo)²).
+ */
+import { quantity, type Quantity } from '../quantity.js';
+import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
+import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
+import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
+import { checkCameraResponse } from '../core/fit/checkCameraResponse.js';
+import { cameraResponseRecord } from './cameraResponseRecord.js';
+import type { CameraDecoding } from '../media/types.js';
+import type { CameraProfile } from '../io/cameraProfile.js';
+import type { RunResult, RunWarning } from '../result/schema.js';
+import type { FittedRun } from './fitRun.js';
+import type { RunCell } from './runCell.js';
+
+export interface DerivedFigures {
+  floorFraction: Quantity;
+  contrastRatio: Quantity;
+  linearised: RunResult['linearised'];
+  cameraResponse: NonNullable<RunResult['cameraResponse']>;
+  channels?: NonNullable<RunResult['channels']>;
+  warnings: RunWarning[];
+}
+
+export interface DerivedInput {
+  fitted: FittedRun;
+  cell: RunCell;
+  openLevel: number | undefined;
+  decoding: CameraDecoding;
+  bitDepth: number;
+  transferFromOption: boolean;
+  cameraProfile?: { path: string; profile: CameraProfile };
+  channelIntensity?: { r: Float64Array; g: Float64Array; b: Float64Array };
+}
+
+function levels(fit: KerrCurveFit, vUsed: Float64Array): { floorFraction: Quantity; contrastRatio: Quantity } {
+  const amp = fit.amplitude, floor = fit.floorLevel;
+  const floorFraction = amp.value > 0
+    ? quantity(floor.value / amp.value, Math.abs(floor.value / amp.value) * Math.hypot((floor.stdErr ?? 0) / (floor.value || 1), (amp.stdErr ?? 0) / amp.value))
+    : quantity(NaN);
+  let vMin = Infinity, vMax = 0;
+  for (const v of vUsed) { vMin = Math.min(vMin, Math.abs(v)); vMax = Math.max(vMax, Math.abs(v)); }
+  let hi = -Infinity, lo = Infinity;
+  for (let k = 0; k <= 400; k++) {
+    const m = fit.predict(vMin + ((vMax - vMin) * k) / 400);
+    hi = Math.max(hi, m); lo = Math.min(lo, m);
+  }
+  const sigmaAt = (level: number): number => {
+    const t = amp.value > 0 ? (level - floor.value) / amp.value : 0;
+    return Math.sqrt((floor.stdErr ?? 0) ** 2 + (t * (amp.stdErr ?? 0)) ** 2);
+  };
+  const contrastRatio = lo > 0 ? quantity(hi / lo, (hi / lo) * Math.hypot(sigmaAt(hi) / hi, sigmaAt(lo) / lo)) : quantity(Infinity);
+  return { floorFraction, contrastRatio };
+}
+
+function channelFits(d: DerivedInput): NonNullable<RunResult['channels']> {
+  const { fitted } = d;
+  const ci = d.channelIntensity!;
+  const vpi0 = fitted.fit.halfWaveVoltage.value;
+  // The open level is a luminance figure, so each channel fits its own amplitude.
+  const { openLevel: _luminanceOpen, ...channelInput } = fitted.fitInput;
+  const one = (series: Float64Array): Quantity => {
+    try {
+      const f = fitKerrCurve({
+        voltageV: fitted.vUsed, intensity: Float64Array.from(fitted.useIdx, (i) => series[i]!), voltageSigmaV: fitted.sUsed, ...channelInput,
+        // a channel's V_π lies near the luminance fit's (dispersion is tens of per cent at most)
+        halfWaveGuessesV: [vpi0, 0.8 * vpi0, 1.25 * vpi0], onlyGivenStarts: true,
+      });
+      return f.identifiable ? f.kerrConstant : quantity(NaN, undefined, 'm/V^2');
+    } catch {
+      return quantity(NaN, undefined, 'm/V^2');
+    }
+  };
+  return {
+    r: one(ci.r), g: one(ci.g), b: one(ci.b),
+    note: 'each camera channel is a broad band of wavelengths, so these are band averages of B (the Kerr constant varies with wavelength); a channel with too little light gives no number',
+  };
+}
+
+export function derivedFigures(d: DerivedInput): DerivedFigures {
+  const { fit, vUsed, iUsed } = d.fitted;
+  const { cell } = d;
+  const warnings: RunWarning[] = [];
+  const { floorFraction, contrastRatio } = levels(fit, vUsed);
+  if (!Number.isFinite(contrastRatio.value)) warnings.push({ code: 'floor-not-positive', message: 'the fitted floor is at or below the surround level, so the contrast ratio is unbounded; check the dark and beam regions', guideSection: 'camera-still' });
+  const linearised = linearisedCrossCheck({
+    voltageV: vUsed, intensity: iUsed, outliers: fit.outliers,
+    floorLevel: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value,
+    polariserAngleDeg: cell.polariserAngleDeg, gapM: cell.gapM, effectiveLengthM: cell.effectiveLengthM, fitKerrConstant: fit.kerrConstant,
+  });
+  const disagreement = linearisedDisagreement(linearised, fit.kerrConstant, fit.identifiable);
+  if (disagreement !== null) warnings.push({ code: 'linearised-disagrees', message: disagreement });
+  const response = cameraResponseRecord({
+    decoding: d.decoding, bitDepth: d.bitDepth, transferFromOption: d.transferFromOption,
+    ...(d.cameraProfile ? { profile: d.cameraProfile } : {}),
+    check: checkCameraResponse({
+      voltageV: vUsed, intensity: iUsed, used: Uint8Array.from(fit.outliers, (x) => 1 - x),
+      fit: { floor: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
+      polariserAngleDeg: cell.polariserAngleDeg, ...(cell.staticRetardanceRad !== undefined ? { staticRetardanceRad: cell.staticRetardanceRad } : {}),
+      ...(d.openLevel !== undefined ? { openLevel: d.openLevel } : {}),
+      effectiveLengthM: cell.effectiveLengthM, gapM: cell.gapM, kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+    }),
+  });
+  warnings.push(...response.warnings);
+  return {
+    floorFraction, contrastRatio, linearised, cameraResponse: response.record, warnings,
+    ...(d.channelIntensity ? { channels: channelFits(d) } : {}),
+  };
+}

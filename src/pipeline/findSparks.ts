@@ -1,0 +1,35 @@
+/**
+ * Sparks (flashes) of one clip: whole-frame brightness jumps on the decimated grid, judged again
+ * on the light outside the beam and its rings when enough of the frame lies outside them (the
+ * beam's own Kerr switching then cannot look like a flash). The maths is detectFlashes
+ * (src/core/events); this file only chooses the series it runs on.
+ * @example findSparks(clip).flags[f] === 1 → frame f is a spark
+ */
+import { detectFlashes, type FlashDetection } from '../core/events/detectFlashes.js';
+import type { ClipMeasurement } from './measureClip.js';
+
+export function findSparks(clip: Pick<ClipMeasurement, 'grid' | 'geom' | 'beamRect' | 'nFrames'>): FlashDetection {
+  const { grid, nFrames } = clip;
+  const cells = grid.gridWidth * grid.gridHeight;
+  const frameMean = new Float64Array(nFrames);
+  for (let f = 0; f < nFrames; f++) {
+    let s = 0;
+    const off = f * cells;
+    for (let c = 0; c < cells; c++) s += grid.data[off + c]!;
+    frameMean[f] = s / cells;
+  }
+  const outer = clip.geom ? clip.geom.b1 : clip.beamRect;
+  const cx0 = Math.floor(outer.x / grid.step), cy0 = Math.floor(outer.y / grid.step);
+  const cx1 = Math.min(grid.gridWidth - 1, Math.ceil((outer.x + outer.w) / grid.step) - 1);
+  const cy1 = Math.min(grid.gridHeight - 1, Math.ceil((outer.y + outer.h) / grid.step) - 1);
+  const inside = Math.max(0, cx1 - cx0 + 1) * Math.max(0, cy1 - cy0 + 1);
+  if (cells - inside < 16) return detectFlashes(frameMean);
+  const outside = new Float64Array(nFrames);
+  for (let f = 0; f < nFrames; f++) {
+    let sIn = 0;
+    const off = f * cells;
+    for (let y = cy0; y <= cy1; y++) for (let x = cx0; x <= cx1; x++) sIn += grid.data[off + y * grid.gridWidth + x]!;
+    outside[f] = (frameMean[f]! * cells - sIn) / (cells - inside);
+  }
+  return detectFlashes(outside);
+}
