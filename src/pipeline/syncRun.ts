@@ -46,7 +46,8 @@ function findOffset(i: SyncInput, warnings: RunWarning[]): Pick<SyncedRun, 'offs
   }
   const usable = Uint8Array.from(i.excluded, (e) => (e ? 0 : 1));
   const s = findSyncOffset({ frameTimesS: i.times, intensity: i.intensity, logTimeS: i.log.timeS, logVoltageV: i.log.voltageV, usable });
-  for (const m of s.warnings) warnings.push({ code: s.ambiguous && /equally/.test(m) ? 'sync-ambiguous' : 'sync', message: m, guideSection: 'sync' });
+  // the search's findings come as data with their own codes (no reading of the message text)
+  for (const w of s.syncWarnings) warnings.push({ code: w.code, message: w.message, guideSection: 'sync' });
   return {
     offsetS: s.offsetS, offsetStdErrS: s.offsetStdErrS ?? undefined, vpiHint: s.vpiGuessV,
     sync: { manual: false, offsetS: s.offsetS, sharpnessS: s.sharpnessS ?? null, ambiguous: s.ambiguous, curve: s.curve },

@@ -16,7 +16,6 @@ export const WARNING_CODES = {
   decoding: 'a guess about how code values become light (untagged transfer, matrix or range)',
   'voltage-log': 'a note from reading the voltage log (units, repeated times, skipped lines)',
   'log-gap': 'frames in gaps of the voltage log were left out rather than bridged',
-  sync: 'a note from the search for the offset between clip and log',
   'sync-ambiguous': 'two sync offsets fit about equally well',
   'sync-at-edge': 'the best sync offset lies at the edge of the offsets searched',
   'sync-not-converged': 'the refinement of the sync offset stopped before converging',

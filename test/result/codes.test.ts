@@ -28,7 +28,7 @@ describe('warning codes', () => {
 
   it('finds the codes the sources write (the scan itself works)', () => {
     const codes = new Set(uses.map((u) => u.code));
-    for (const known of ['clipping', 'sync-ambiguous', 'sync', 'implausible-kerr-constant', 'probe', 'terms-cancel', 'overlay-photo']) expect(codes).toContain(known);
+    for (const known of ['clipping', 'sync-ambiguous', 'sync-at-edge', 'implausible-kerr-constant', 'probe', 'terms-cancel', 'overlay-photo']) expect(codes).toContain(known);
   });
 
   it('every code written in src/ or cli/ is a WarningCode', () => {
