@@ -9,6 +9,7 @@ import { runUncertainty } from './runUncertainty.js';
 import { syncOffsetUncertaintyS } from '../core/uncertainty/syncOffsetUncertainty.js';
 import { runGates } from '../core/gates/runGates.js';
 import { frameNoise } from '../core/gates/frameNoise.js';
+import { explainedShare } from '../core/gates/explainedShare.js';
 import { LIQUIDS } from '../data/liquids.js';
 import type { RunResult, RunWarning } from '../result/schema.js';
 import type { FittedRun } from './fitRun.js';
@@ -78,6 +79,7 @@ export function budgetAndGates(b: BudgetInput): BudgetAndGates {
     converged: fit.converged, fitReason: fit.reason, identifiable: fit.identifiable, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave,
     ampVpiCorrelation: fit.ampVpiCorrelation, relStdErrB: fit.relStdErrB,
     residualRms: fit.intensityNoise, signalAmplitude: fit.amplitude.value, frameNoise: noise, bitsPerPixel: b.bitsPerPixel,
+    explainedShare: explainedShare(fitted.iUsed, Float64Array.from(fitted.vUsed, (v) => fit.predict(v))),
     syncAmbiguous: synced.sync.ambiguous, plausibleRangeMPerV2: liquidKerrRange(),
   });
   return { uncertainty, offsetStdErrS, validity: { valid: gates.failures.length === 0, failures: gates.failures }, frameNoise: noise, warnings: gates.warnings };

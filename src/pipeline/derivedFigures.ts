@@ -4,12 +4,12 @@
  * camera-response check and record (docs/camera-response.md) and, with --channels rgb, B per
  * colour channel (each fitted with its own amplitude near the luminance fit's V_π).
  *
- * Errors by first-order propagation, correlations ignored:
- *   floor fraction: σ = |f|·√((σ_floor/floor)² + (σ_amp/amp)²);
- *   a model level I = I_floor + I_amp·t: σ_I² = σ_floor² + t²·σ_amp², t = (I − I_floor)/I_amp;
- *   contrast C = hi/lo: σ_C = C·√((σ_hi/hi)² + (σ_lo/lo)²).
+ * Floor fraction and contrast ratio come from the core formulas shared with photo runs
+ * (src/core/figures: first-order propagation, correlations ignored).
  */
 import { quantity, type Quantity } from '../quantity.js';
+import { floorFraction } from '../core/figures/floorFraction.js';
+import { contrastRatio } from '../core/figures/contrastRatio.js';
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
 import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
@@ -41,24 +41,11 @@ export interface DerivedInput {
   channelIntensity?: { r: Float64Array; g: Float64Array; b: Float64Array };
 }
 
+/** Floor fraction and contrast ratio by the core formulas photo runs use too (src/core/figures). */
 function levels(fit: KerrCurveFit, vUsed: Float64Array): { floorFraction: Quantity; contrastRatio: Quantity } {
-  const amp = fit.amplitude, floor = fit.floorLevel;
-  const floorFraction = amp.value > 0
-    ? quantity(floor.value / amp.value, Math.abs(floor.value / amp.value) * Math.hypot((floor.stdErr ?? 0) / (floor.value || 1), (amp.stdErr ?? 0) / amp.value))
-    : quantity(NaN);
   let vMin = Infinity, vMax = 0;
   for (const v of vUsed) { vMin = Math.min(vMin, Math.abs(v)); vMax = Math.max(vMax, Math.abs(v)); }
-  let hi = -Infinity, lo = Infinity;
-  for (let k = 0; k <= 400; k++) {
-    const m = fit.predict(vMin + ((vMax - vMin) * k) / 400);
-    hi = Math.max(hi, m); lo = Math.min(lo, m);
-  }
-  const sigmaAt = (level: number): number => {
-    const t = amp.value > 0 ? (level - floor.value) / amp.value : 0;
-    return Math.sqrt((floor.stdErr ?? 0) ** 2 + (t * (amp.stdErr ?? 0)) ** 2);
-  };
-  const contrastRatio = lo > 0 ? quantity(hi / lo, (hi / lo) * Math.hypot(sigmaAt(hi) / hi, sigmaAt(lo) / lo)) : quantity(Infinity);
-  return { floorFraction, contrastRatio };
+  return { floorFraction: floorFraction(fit.floorLevel, fit.amplitude), contrastRatio: contrastRatio(fit, vMin, vMax).ratio };
 }
 
 function channelFits(d: DerivedInput): NonNullable<RunResult['channels']> {

@@ -25,6 +25,7 @@
  * the beam intensity itself, which is floor + amplitude × modulation: the same regression up to
  * an intercept (exposureDrift keeps only a positive slope, i.e. added scattered light).
  */
+import { CLIPPED_FRACTION_LIMIT } from '../core/figures/clippedFractionLimit.js';
 import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { exposureDrift } from '../core/scatter/exposureDrift.js';
 import { detectExposureJumps } from '../core/scatter/detectExposureJumps.js';
@@ -83,7 +84,7 @@ export function preSyncExclusions(input: PreSyncInput): FrameExclusions {
   for (let f = 0; f < n; f++) {
     if (!Number.isFinite(series.gain[f]!)) excluded[f] = 'no-reference';
     else if (sparks.flags[f]) excluded[f] = 'spark';
-    else if (clip.beam.clipped[f]! > 0.01) excluded[f] = 'clipped';
+    else if (clip.beam.clipped[f]! > CLIPPED_FRACTION_LIMIT) excluded[f] = 'clipped';
     if (sparks.flags[f]) events.push({ kind: 'spark', frameIndex: f, timeS: clip.times[f]!, size: sparks.z[f]! });
   }
   markClipped(clip, excluded, events, warnings);

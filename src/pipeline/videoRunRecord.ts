@@ -4,12 +4,15 @@
  * fit and what derives from it, the budget and gates, the figures and the pictures. The clock,
  * the versions, the input hashes and the file list come in as arguments; nothing is read from
  * the environment here and the record is not changed after it is built.
- * B and V_π carry the budget's combined standard uncertainty; V_π/4 = V_π/√2.
+ * It gathers the video parts and hands them to the one builder photo runs use too
+ * (src/result/buildRunRecord.ts), which gives B and V_π the budget's combined standard uncertainty
+ * and the quarter-wave voltage V_π/√2.
  * @example videoRunRecord({ ... }).kerrConstant → { value: 2.4e-12, stdErr: 3e-14, unit: 'm/V^2' }
  */
 import { basename } from 'node:path';
 import { quantity, type Quantity } from '../quantity.js';
-import { RESULT_SCHEMA_VERSION, type RunEvent, type RunResult, type RunWarning } from '../result/schema.js';
+import type { RunEvent, RunResult, RunWarning } from '../result/schema.js';
+import { buildRunRecord } from '../result/buildRunRecord.js';
 import type { Rect, VideoInfo, CameraDecoding } from '../media/types.js';
 import type { SurroundGeometry } from '../core/regions/localSurround.js';
 import type { VoltageLog } from '../io/voltageLog.js';
@@ -87,20 +90,20 @@ function scatter(r: VideoRunRecordInput): NonNullable<RunResult['scatter']> {
 export function videoRunRecord(r: VideoRunRecordInput): RunResult {
   const { o, provenance: p, clip, cell, log, fitted, derived, budget, synced } = r;
   const { fit } = fitted;
-  const kerr = quantity(fit.kerrConstant.value, budget.uncertainty.kerrConstant.combinedStdErr, 'm/V^2');
-  const vpi = quantity(fit.halfWaveVoltage.value, budget.uncertainty.halfWaveVoltage.combinedStdErr, 'V');
-  return {
-    schemaVersion: RESULT_SCHEMA_VERSION, kind: 'kerrtrace-run', label: o.label ?? basename(o.videoPath), createdAt: p.createdAt, source: 'video',
+  return buildRunRecord({
+    label: o.label ?? basename(o.videoPath), createdAt: p.createdAt, source: 'video',
     tool: { name: 'kerrtrace', version: p.toolVersion, ffmpegVersion: p.ffmpegVersion, node: p.nodeVersion },
     inputs: p.inputs,
     options: { ...o },
     cell: { lengthM: cell.lengthM, effectiveLengthM: cell.effectiveLengthM, gapM: cell.gapM, polariserAngleDeg: cell.polariserAngleDeg, electrodeHeightM: cell.electrodeHeightM, wavelengthNm: o.wavelengthNm ?? null },
     camera: { width: clip.info.width, height: clip.info.height, fps: clip.info.meanFps, variableFrameRate: clip.info.variableFrameRate, transfer: clip.decoding.transfer, range: clip.decoding.range, bitsPerPixel: r.bitsPerPixel },
     regions: regions(r),
-    kerrConstant: kerr, halfWaveVoltage: vpi, uncertainty: budget.uncertainty, validity: budget.validity,
-    quarterWaveVoltage: quantity(vpi.value / Math.SQRT2, (vpi.stdErr ?? NaN) / Math.SQRT2, 'V'),
-    syncOffset: quantity(synced.offsetS, budget.offsetStdErrS, 's'),
-    floorFraction: derived.floorFraction, contrastRatio: derived.contrastRatio,
+    figures: {
+      kerrConstant: fit.kerrConstant, halfWaveVoltage: fit.halfWaveVoltage,
+      syncOffset: quantity(synced.offsetS, budget.offsetStdErrS, 's'),
+      floorFraction: derived.floorFraction, contrastRatio: derived.contrastRatio,
+    },
+    uncertainty: budget.uncertainty, validity: budget.validity,
     identifiable: fit.identifiable,
     identifiability: { ampVpiCorrelation: fit.ampVpiCorrelation, relStdErrB: fit.relStdErrB, maxVoltageOverHalfWave: fit.maxVoltageOverHalfWave, openLevelUsed: r.openLevelUsed },
     model: {
@@ -112,11 +115,13 @@ export function videoRunRecord(r: VideoRunRecordInput): RunResult {
     events: r.events,
     log: { rows: log.rows, spanS: log.timeS[log.rows - 1]! - log.timeS[0]!, currentColumn: log.currentA !== null, temperatureC: log.temperatureC ? meanSd(log.temperatureC) : null },
     warnings: r.warnings,
-    scatter: scatter(r),
-    ...(r.figures.hysteresis ? { hysteresis: r.figures.hysteresis } : {}),
-    ...(r.figures.conductivity ? { conductivity: r.figures.conductivity } : {}),
-    ...(derived.channels ? { channels: derived.channels } : {}),
-    cameraResponse: derived.cameraResponse,
+    extras: {
+      scatter: scatter(r),
+      ...(r.figures.hysteresis ? { hysteresis: r.figures.hysteresis } : {}),
+      ...(r.figures.conductivity ? { conductivity: r.figures.conductivity } : {}),
+      ...(derived.channels ? { channels: derived.channels } : {}),
+      cameraResponse: derived.cameraResponse,
+    },
     files: p.files,
-  };
+  });
 }

@@ -15,6 +15,11 @@
  * - residual-excess: the fit's robust residual scale (median-based, so a few frames at a step or a
  *   spark do not count) exceeds RESIDUAL_EXCESS_LIMIT × the frame-to-frame noise (frameNoise) — the model does not describe the data: a log from another recording, a
  *   wrong sync, a wrong branch. Compression-correlated residuals stay well below this limit.
+ * - weak-signal: the fitted Kerr curve explains less than WEAK_SIGNAL_SHARE of the variation of
+ *   the beam intensity over the frames used (R², explainedShare): the region shows little that
+ *   follows the drive — a region on empty background, a beam blocked or out of frame. Such a fit
+ *   can still report a tight B from noise and drift (a region on the background of a test clip
+ *   gave B 2.6× the truth at R² 0.08); on a real beam R² is above 0.9 even at 0.6·V_π reach.
  * - sync-ambiguous: the sync search found a runner-up as good as the best offset.
  * - compression-starved: the file holds fewer than STARVED_BITS_PER_PIXEL bits per pixel per
  *   frame. Starved H.264 flattens a dim spot, lets it brighten frames late and makes the dark level
@@ -32,6 +37,8 @@ export const STARVED_BITS_PER_PIXEL = 0.025;
 export const RESIDUAL_SIGNAL_FRACTION = 0.02;
 export const WEAK_REACH_CORRELATION = 0.95;
 export const WEAK_REACH_REL_ERROR = 0.1;
+/** Least share of the beam intensity's variation (R²) the fitted curve must explain; this tool's choice. */
+export const WEAK_SIGNAL_SHARE = 0.5;
 
 export interface GateInput {
   kerrConstant: number;
@@ -51,6 +58,8 @@ export interface GateInput {
   /** Fitted modulation amplitude (same units), the size of the signal. */
   signalAmplitude: number;
   frameNoise: number;
+  /** R² of the fitted curve over the frames used (explainedShare); omitted: not checked. */
+  explainedShare?: number;
   syncAmbiguous: boolean;
   /** File bits per pixel per frame. */
   bitsPerPixel: number;
@@ -72,6 +81,9 @@ export function runGates(g: GateInput): { failures: RunGateFailure[]; warnings: 
   }
   if (Number.isFinite(g.frameNoise) && g.frameNoise > 0 && g.residualRms > RESIDUAL_EXCESS_LIMIT * g.frameNoise && g.residualRms > RESIDUAL_SIGNAL_FRACTION * Math.abs(g.signalAmplitude)) {
     fail('residual-excess', `the fit leaves residuals ${(g.residualRms / g.frameNoise).toFixed(1)}× the frame-to-frame noise, so the model does not describe the data (a log from another recording, a wrong sync offset or a wrong region?)`);
+  }
+  if (g.explainedShare !== undefined && Number.isFinite(g.explainedShare) && g.explainedShare < WEAK_SIGNAL_SHARE) {
+    fail('weak-signal', `the fitted Kerr curve explains only ${Math.max(0, g.explainedShare * 100).toFixed(0)} % of how the brightness in the beam region varies, so the region shows little that follows the drive (on empty background, or the beam blocked); check the beam region on the report's picture`, ['beamRegion']);
   }
   if (g.syncAmbiguous) fail('sync-ambiguous', 'two sync offsets fit about equally well, so the voltage at each frame is not known; give the sync offset or record a drive without repeats', ['syncOffset']);
   if (Number.isFinite(g.bitsPerPixel) && g.bitsPerPixel < STARVED_BITS_PER_PIXEL) {

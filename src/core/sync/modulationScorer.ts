@@ -12,6 +12,9 @@
  * with m_k = sin²(π/2 · u_k / r²), S_mm = Σ(m − m̄)², S_mI = Σ(m − m̄)(I − Ī), S_II = Σ(I − Ī)².
  * (Source: simple linear regression, any statistics text.) R² is dimensionless, in [0, 1].
  *
+ * This is the Kerr modulation term of src/core/physics/modulationTerm.ts with its constant factor
+ * sin²(2θ) dropped (R² does not change with scale) and no static retardance, written out here so
+ * that the inner loop can use a table.
  * `scoreGrid` evaluates a set of V_π ratios with a tabulated sin² (linear interpolation over 4096
  * points per half period, error below 2e-7); `score` uses Math.sin for the refinement.
  *

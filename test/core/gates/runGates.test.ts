@@ -22,6 +22,9 @@ describe('runGates', () => {
     expect(gate({ residualRms: 0.005 })).not.toContain('residual-excess'); // 5× the frame noise but 1.7 % of the signal
     expect(gate({ syncAmbiguous: true })).toContain('sync-ambiguous');
     expect(gate({ bitsPerPixel: 0.01 })).toContain('compression-starved');
+    expect(gate({ explainedShare: 0.08 })).toContain('weak-signal'); // a region on empty background (issue 12)
+    expect(gate({ explainedShare: 0.95 })).not.toContain('weak-signal');
+    expect(gate({ explainedShare: NaN })).not.toContain('weak-signal'); // no variation: other gates speak
   });
   it('warns (without failing) when B is more than 10× outside the liquid table', () => {
     const r = runGates({ ...clean, kerrConstant: 2.2e-6 }); // kV read as V gives B 10⁶× too large
