@@ -20,11 +20,11 @@ import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
 import { decodePass, type GridStore, type RegionSeries } from './decodePass.js';
 import { blockSeries } from './blockSeries.js';
 import { validateRect } from '../measure/rect.js';
-import { findBeam } from '../core/regions/findBeam.js';
-import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
+import type { CellBox } from '../core/regions/cellGeometry.js';
+import { findClipBeam } from './findClipBeam.js';
+import { measureOpenClip } from './measureOpenClip.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { surroundRings } from '../core/regions/surroundRings.js';
-import { detectFlashes } from '../core/events/detectFlashes.js';
 import type { RunWarning } from '../result/schema.js';
 
 /** What measureClip needs from the run's options. */
@@ -126,16 +126,8 @@ export async function openClip(o: ClipOptions): Promise<OpenedClip> {
   return { probe, decoding, decodingOverrides, ...(cameraProfile ? { cameraProfile } : {}), warnings: decodingWarnings(probe.notes, decoding.notes) };
 }
 
-/** Decode once, find the beam and its surround, measure the open clip; see the file comment. */
-export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: ClipHooks = {}): Promise<ClipMeasurement> {
-  const warnings: RunWarning[] = [...opened.warnings];
-  const warn = (code: string, message: string, guideSection?: string) => {
-    warnings.push(guideSection ? { code, message, guideSection } : { code, message });
-  };
-  const { probe, decoding, decodingOverrides, cameraProfile } = opened;
-  const info = probe.info;
-
-  // ---- one decoding pass ----
+/** The regions the pass reads at full resolution, in order, and where each one is. */
+function planRegions(o: ClipOptions, width: number, height: number): { regions: Rect[]; idx: Record<string, number>; geom: SurroundGeometry | undefined } {
   const regions: Rect[] = [];
   const idx: Record<string, number> = {};
   const add = (name: string, r: Rect) => { idx[name] = regions.length; regions.push(r); };
@@ -143,7 +135,7 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   if (o.roi) {
     add('beam', o.roi);
     if (!o.darkRoi) {
-      geom = surroundRings(o.roi, info.width, info.height);
+      geom = surroundRings(o.roi, width, height);
       add('a0', geom.a0);
       add('a1', geom.a1);
       add('b1', geom.b1);
@@ -151,97 +143,64 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   }
   if (o.darkRoi) add('dark', o.darkRoi);
   if (o.referenceRoi) add('reference', o.referenceRoi);
+  return { regions, idx, geom };
+}
+
+/** The background under the beam: the dark region, or the rings' extrapolation; none without room for rings. */
+function backgroundFor(o: ClipOptions, geom: SurroundGeometry | undefined, darkSeries: RegionSeries | undefined, rings: RegionSeries[], nFrames: number, warnings: RunWarning[]): { background: BackgroundSeries; haveSurround: boolean } {
+  if (o.darkRoi) return { background: backgroundOf([darkSeries!], [1], nFrames), haveSurround: true };
+  const sw = surroundWeights(geom!);
+  if (sw.ringACount < 16) {
+    warnings.push({ code: 'no-surround', message: 'the beam region leaves no room for a surround ring, so the floor includes any background light; give --dark-roi', guideSection: 'camera-still' });
+    return { background: backgroundOf([], null, nFrames), haveSurround: false };
+  }
+  const c = sw.coefficients;
+  return { background: backgroundOf(rings, [c[1], c[2], c[3]], nFrames), haveSurround: true };
+}
+
+/** Decode once, find the beam and its surround, measure the open clip; see the file comment. */
+export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: ClipHooks = {}): Promise<ClipMeasurement> {
+  const warnings: RunWarning[] = [...opened.warnings];
+  const { probe, decoding, decodingOverrides, cameraProfile } = opened;
+  const info = probe.info;
+  const plan = planRegions(o, info.width, info.height);
+  const { idx } = plan;
+  let geom = plan.geom;
   const channels = o.channels === 'rgb' && !o.roi;
-  const step = chooseGridStep(info, channels ? 4 : 1);
   const pass = await decodePass(probe, decoding, {
-    regions, overviewStep: step, ringRowStride: 2, channels,
+    regions: plan.regions, overviewStep: chooseGridStep(info, channels ? 4 : 1), ringRowStride: 2, channels,
     ...(hooks.onProgress ? { onProgress: (d: number, t: number) => hooks.onProgress!('decoding', d, t) } : {}),
   });
-  for (const note of pass.notes) warn('probe', note);
+  for (const note of pass.notes) warnings.push({ code: 'probe', message: note });
   const nFrames = pass.frames;
   if (nFrames < 10) throw new KerrError('NOT_A_VIDEO', nFrames === 1 ? `${o.videoPath} has only one frame that can be decoded; at least 10 are needed` : `${o.videoPath} has only ${nFrames} frames that can be decoded; at least 10 are needed`, { hint: 'Record a longer clip' });
   const grid = pass.grid!;
-  const times = pass.times;
 
-  // ---- beam and its rings ----
-  let beamRect: Rect;
-  let beamAuto = false;
-  /** Series of [beam, a0, a1, b1] (rings absent with a dark region). */
+  // ---- beam and its rings: given, or found and measured from whole blocks (no second decode) ----
   let beamAndRings: RegionSeries[];
+  let blocks: { boxes: readonly CellBox[]; step: number } | undefined;
   if (o.roi) {
-    beamRect = o.roi;
     beamAndRings = geom ? [pass.regions[idx.beam!]!, pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [pass.regions[idx.beam!]!];
   } else {
-    // whole-frame brightness jumps (flashes) are left out of the search
-    const cells = grid.gridWidth * grid.gridHeight;
-    const frameMean = new Float64Array(nFrames);
-    for (let f = 0; f < nFrames; f++) {
-      let s = 0;
-      const off = f * cells;
-      for (let c = 0; c < cells; c++) s += grid.data[off + c]!;
-      frameMean[f] = s / cells;
-    }
-    const flashes = detectFlashes(frameMean);
-    const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
-    beamAuto = true;
-    const gw = grid.gridWidth, gh = grid.gridHeight;
-    const growCells = (c: CellBox, by: number): CellBox => growCellBox(c, by, gw, gh);
-    const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);
-    const ring = Math.max(2, Math.round(size / 3));
-    const boxes = [found.beam, growCells(found.beam, 1), growCells(found.beam, 1 + ring), growCells(found.beam, 1 + 2 * ring)] as const;
-    beamRect = cellBoxToRect(found.beam, grid.step);
-    geom = { beam: beamRect, a0: cellBoxToRect(boxes[1], grid.step), a1: cellBoxToRect(boxes[2], grid.step), b1: cellBoxToRect(boxes[3], grid.step) };
-    // The beam and its rings are whole blocks, so they are measured from the block store of the
-    // same pass (colour-decoded block means; docs/analyze.md gives the measured difference from a
-    // full-resolution read): no second decode.
-    beamAndRings = boxes.map((box) => blockSeries(grid, box));
-    warn('auto-region', `the beam region was found automatically at x=${beamRect.x}, y=${beamRect.y}, ${beamRect.w}×${beamRect.h} px and measured with its surround from ${grid.step}×${grid.step}-pixel block means (a sharp-edged spot reads a little low at its brightest); check it in the report, or give --roi for a full-resolution read`);
+    const found = findClipBeam(grid, nFrames);
+    geom = found.geom;
+    blocks = { boxes: found.boxes, step: grid.step };
+    // docs/analyze.md gives the measured difference of block means from a full-resolution read
+    beamAndRings = found.boxes.map((box) => blockSeries(grid, box));
+    const b = geom.beam;
+    warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px and measured with its surround from ${grid.step}×${grid.step}-pixel block means (a sharp-edged spot reads a little low at its brightest); check it in the report, or give --roi for a full-resolution read` });
   }
+  const beamRect = o.roi ?? geom!.beam;
+  const { background, haveSurround } = backgroundFor(o, geom, o.darkRoi ? pass.regions[idx.dark!] : undefined, beamAndRings.slice(1), nFrames, warnings);
 
-  // ---- the background under the beam ----
-  let haveSurround = true;
-  let background: BackgroundSeries;
-  if (o.darkRoi) {
-    background = backgroundOf([pass.regions[idx.dark!]!], [1], nFrames);
-  } else {
-    const sw = surroundWeights(geom!);
-    if (sw.ringACount < 16) {
-      haveSurround = false;
-      warn('no-surround', 'the beam region leaves no room for a surround ring, so the floor includes any background light; give --dark-roi', 'camera-still');
-      background = backgroundOf([], null, nFrames);
-    } else {
-      const c = sw.coefficients;
-      background = backgroundOf(beamAndRings.slice(1), [c[1], c[2], c[3]], nFrames);
-    }
-  }
-
-  // ---- the open level from a separate clip ----
-  let openVideoLevels: number[] | undefined;
-  if (o.openVideoPath) {
-    const openProbe = await probeMedia(o.openVideoPath);
-    const openInfo = openProbe.info;
-    if (openInfo.width !== info.width || openInfo.height !== info.height) {
-      throw new KerrError('BAD_ARGUMENT', `the open video is ${openInfo.width}×${openInfo.height} but the run is ${info.width}×${info.height}`, { path: '--open-video', hint: 'Record the open level with the same camera settings' });
-    }
-    const openRegions: Rect[] = [beamRect];
-    if (o.darkRoi) openRegions.push(o.darkRoi);
-    else if (haveSurround) openRegions.push(geom!.a0, geom!.a1, geom!.b1);
-    const sw = geom ? surroundWeights(geom).coefficients : [0, 0, 0, 0];
-    const openPass = await decodePass(openProbe, decodingFor(openInfo, decodingOverrides), { regions: openRegions, ringRowStride: 2 });
-    for (const note of openPass.notes) warn('probe', `open video: ${note}`);
-    openVideoLevels = [];
-    for (let f = 0; f < openPass.frames; f++) {
-      let bg = 0;
-      if (o.darkRoi) bg = openPass.regions[1]!.luma[f]!;
-      else if (haveSurround) {
-        bg = sw[1]! * openPass.regions[1]!.luma[f]! + sw[2]! * openPass.regions[2]!.luma[f]! + sw[3]! * openPass.regions[3]!.luma[f]!;
-      }
-      openVideoLevels.push(openPass.regions[0]!.luma[f]! - bg);
-    }
-  }
+  // ---- the open level from a separate clip, read the same way as the beam ----
+  const openVideoLevels = o.openVideoPath === undefined ? undefined : await measureOpenClip({
+    path: o.openVideoPath, width: info.width, height: info.height, decodingOverrides, beamRect, haveSurround, geom,
+    ...(o.darkRoi ? { darkRoi: o.darkRoi } : {}), ...(blocks ? { blocks } : {}),
+  }, warnings);
 
   return {
-    info, decoding, ...(cameraProfile ? { cameraProfile } : {}), times, nFrames, grid, beamRect, beamAuto, geom, haveSurround,
+    info, decoding, ...(cameraProfile ? { cameraProfile } : {}), times: pass.times, nFrames, grid, beamRect, beamAuto: !o.roi, geom, haveSurround,
     beam: beamAndRings[0]!, background,
     ...(o.darkRoi ? { darkLuma: pass.regions[idx.dark!]!.luma } : {}),
     ...(o.referenceRoi ? { referenceLuma: pass.regions[idx.reference!]!.luma } : {}),

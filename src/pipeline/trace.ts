@@ -98,23 +98,9 @@ function resize(series: RegionSeries, length: number): RegionSeries {
   return out;
 }
 
-export async function traceVideo(path: string, opts: TraceOptions): Promise<TraceResult> {
-  if (opts.regions.length === 0) {
-    throw new KerrError('BAD_ARGUMENT', 'no region to trace', { path: '--roi', hint: 'Give at least one --roi x,y,w,h' });
-  }
-  const probe = opts.probe ?? (await probeMedia(path, opts.signal === undefined ? {} : { signal: opts.signal }));
+/** Every frame's region means, read through the shared decoding pass (or whole frames when asked). */
+async function readRegions(path: string, opts: TraceOptions, probe: ProbeResult, decoding: CameraDecoding, all: Rect[]): Promise<{ n: number; timeS: Float64Array; series: RegionSeries[]; crops: Rect[]; streamNotes: readonly string[] }> {
   const { info } = probe;
-  opts.regions.forEach((r) => validateRect(r, info.width, info.height, '--roi'));
-  if (opts.dark) validateRect(opts.dark, info.width, info.height, '--dark-roi');
-  if (opts.reference) validateRect(opts.reference, info.width, info.height, '--reference-roi');
-
-  const decoding = decodingFor(info, opts.decoding ?? {});
-  const notes = [...probe.notes, ...decoding.notes];
-
-  const all: Rect[] = [...opts.regions];
-  if (opts.dark) all.push(opts.dark);
-  if (opts.reference) all.push(opts.reference);
-
   let capacity = Math.max(16, (opts.maxFrames !== undefined ? Math.min(opts.maxFrames, probe.expectedFrames) : probe.expectedFrames) + 1);
   let timeS = new Float64Array(capacity);
   let series = all.map((r) => emptySeries(r, capacity));
@@ -172,15 +158,16 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
     crops = pass.crops;
     streamNotes = pass.notes;
   }
-  notes.push(...streamNotes);
   timeS = timeS.slice(0, n);
   series = series.map((s) => resize(s, n));
+  return { n, timeS, series, crops, streamNotes };
+}
 
-  const regions = series.slice(0, opts.regions.length);
-  let next = opts.regions.length;
-  const dark = opts.dark ? series[next++] : undefined;
-  const reference = opts.reference ? series[next++] : undefined;
-
+/**
+ * Each region minus the dark region, divided by the exposure gain from the reference region
+ * (when given); notes on a reference that is never brighter than the dark level or clips.
+ */
+function correctedSeries(regions: RegionSeries[], dark: RegionSeries | undefined, reference: RegionSeries | undefined, n: number, notes: string[]): { gains: ExposureGains | undefined; corrected: RegionSeries[] } {
   let gains: ExposureGains | undefined;
   if (reference) {
     gains = exposureGains(reference.luma, dark?.luma);
@@ -203,6 +190,35 @@ export async function traceVideo(path: string, opts: TraceOptions): Promise<Trac
     return out;
   });
 
+  return { gains, corrected };
+}
+
+export async function traceVideo(path: string, opts: TraceOptions): Promise<TraceResult> {
+  if (opts.regions.length === 0) {
+    throw new KerrError('BAD_ARGUMENT', 'no region to trace', { path: '--roi', hint: 'Give at least one --roi x,y,w,h' });
+  }
+  const probe = opts.probe ?? (await probeMedia(path, opts.signal === undefined ? {} : { signal: opts.signal }));
+  const { info } = probe;
+  opts.regions.forEach((r) => validateRect(r, info.width, info.height, '--roi'));
+  if (opts.dark) validateRect(opts.dark, info.width, info.height, '--dark-roi');
+  if (opts.reference) validateRect(opts.reference, info.width, info.height, '--reference-roi');
+
+  const decoding = decodingFor(info, opts.decoding ?? {});
+  const notes = [...probe.notes, ...decoding.notes];
+
+  const all: Rect[] = [...opts.regions];
+  if (opts.dark) all.push(opts.dark);
+  if (opts.reference) all.push(opts.reference);
+
+  const { n, timeS, series, crops, streamNotes } = await readRegions(path, opts, probe, decoding, all);
+  notes.push(...streamNotes);
+
+  const regions = series.slice(0, opts.regions.length);
+  let next = opts.regions.length;
+  const dark = opts.dark ? series[next++] : undefined;
+  const reference = opts.reference ? series[next++] : undefined;
+
+  const { gains, corrected } = correctedSeries(regions, dark, reference, n, notes);
   const result: TraceResult = { info, probe, decoding, notes, frames: n, timeS, regions, corrected, crops };
   if (dark) result.dark = dark;
   if (reference) result.reference = reference;
