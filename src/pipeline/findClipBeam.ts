@@ -8,6 +8,7 @@ import { findBeam } from '../core/regions/findBeam.js';
 import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import type { SurroundGeometry } from '../core/regions/localSurround.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
+import { frameMeans } from '../core/events/frameMeans.js';
 import type { GridStore } from './decodePass.js';
 
 export interface ClipBeam {
@@ -16,21 +17,8 @@ export interface ClipBeam {
   geom: SurroundGeometry;
 }
 
-/** Mean of each frame over all blocks. */
-function frameMeans(grid: GridStore, nFrames: number): Float64Array {
-  const cells = grid.gridWidth * grid.gridHeight;
-  const frameMean = new Float64Array(nFrames);
-  for (let f = 0; f < nFrames; f++) {
-    let s = 0;
-    const off = f * cells;
-    for (let c = 0; c < cells; c++) s += grid.data[off + c]!;
-    frameMean[f] = s / cells;
-  }
-  return frameMean;
-}
-
 export function findClipBeam(grid: GridStore, nFrames: number): ClipBeam {
-  const flashes = detectFlashes(frameMeans(grid, nFrames));
+  const flashes = detectFlashes(frameMeans(grid.data, nFrames, grid.gridWidth * grid.gridHeight));
   const found = findBeam({ grid: grid.data, frames: nFrames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable: Uint8Array.from(flashes.flags, (x) => 1 - x) });
   const grow = (c: CellBox, by: number): CellBox => growCellBox(c, by, grid.gridWidth, grid.gridHeight);
   const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);

@@ -6,18 +6,13 @@
  * @example findSparks(clip).flags[f] === 1 → frame f is a spark
  */
 import { detectFlashes, type FlashDetection } from '../core/events/detectFlashes.js';
+import { frameMeans } from '../core/events/frameMeans.js';
 import type { ClipMeasurement } from './measureClip.js';
 
 export function findSparks(clip: Pick<ClipMeasurement, 'grid' | 'geom' | 'beamRect' | 'nFrames'>): FlashDetection {
   const { grid, nFrames } = clip;
   const cells = grid.gridWidth * grid.gridHeight;
-  const frameMean = new Float64Array(nFrames);
-  for (let f = 0; f < nFrames; f++) {
-    let s = 0;
-    const off = f * cells;
-    for (let c = 0; c < cells; c++) s += grid.data[off + c]!;
-    frameMean[f] = s / cells;
-  }
+  const frameMean = frameMeans(grid.data, nFrames, cells);
   const outer = clip.geom ? clip.geom.b1 : clip.beamRect;
   const cx0 = Math.floor(outer.x / grid.step), cy0 = Math.floor(outer.y / grid.step);
   const cx1 = Math.min(grid.gridWidth - 1, Math.ceil((outer.x + outer.w) / grid.step) - 1);
