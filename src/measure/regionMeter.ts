@@ -76,7 +76,7 @@ export function createRegionMeter(
    * values and clip flags are tabulated for all 256·256 pairs once per meter (the same arithmetic as
    * the per-pixel path, so the same doubles); G′ needs (Y, U, V) and is computed per pixel.
    */
-  const pairs = bitDepth > 8 ? null : pairTables(tables);
+  const pairs = bitDepth > 8 ? null : cachedPairTables(decoding, tables);
 
   /**
    * One region's sums. The pixel arithmetic is written out in one loop over local variables (no
@@ -228,28 +228,48 @@ interface PairTables {
   clipRB: Uint8Array;
 }
 
+/**
+ * The pair tables of the last few 8-bit decodings (yuvTables is a pure function of the decoding, so
+ * equal decodings give equal tables): a run makes several meters with one decoding, and building
+ * the tables costs 1 to 25 ms (more while the optimising compiler waits for a busy CPU).
+ */
+const pairCache = new Map<string, PairTables>();
+const PAIR_CACHE_SIZE = 4;
+
+function cachedPairTables(decoding: CameraDecoding, tables: YuvTables): PairTables {
+  const key = JSON.stringify([decoding.range, decoding.matrix, decoding.transfer, decoding.clipCode, decoding.response ?? null]);
+  let found = pairCache.get(key);
+  if (!found) {
+    found = pairTables(tables);
+    if (pairCache.size >= PAIR_CACHE_SIZE) pairCache.delete(pairCache.keys().next().value!);
+    pairCache.set(key, found);
+  }
+  return found;
+}
+
 /** The 8-bit (Y, V) → R′ and (Y, U) → B′ tables, by the per-pixel arithmetic of measureOne. */
 function pairTables(t: YuvTables): PairTables {
   const { yCode, rFromV, bFromU, linear, clipThreshold, perCode } = t;
-  const out: PairTables = {
-    rCode: new Float64Array(65536), rLinear: new Float64Array(65536),
-    bCode: new Float64Array(65536), bLinear: new Float64Array(65536), clipRB: new Uint8Array(65536),
-  };
-  const fill = (code: Float64Array, lin: Float64Array, k: number, c: number, bit: number): void => {
-    if (c >= clipThreshold) out.clipRB[k] |= bit;
-    let x = c <= 0 ? 0 : c >= 255 ? 255 : c;
-    code[k] = x;
-    x *= perCode;
-    const i = x | 0;
-    const lo = linear[i]!;
-    lin[k] = lo + (x - i) * (linear[i + 1]! - lo);
-  };
-  for (let y = 0; y < 256; y++) {
-    for (let c = 0; c < 256; c++) {
-      const k = (y << 8) | c;
-      fill(out.rCode, out.rLinear, k, yCode[y]! + rFromV[c]!, 1);
-      fill(out.bCode, out.bLinear, k, yCode[y]! + bFromU[c]!, 2);
-    }
+  const rCode = new Float64Array(65536), rLinear = new Float64Array(65536);
+  const bCode = new Float64Array(65536), bLinear = new Float64Array(65536);
+  const clipRB = new Uint8Array(65536);
+  for (let k = 0; k < 65536; k++) {
+    const base = yCode[k >> 8]!;
+    const c = k & 255;
+    let r = base + rFromV[c]!;
+    let b = base + bFromU[c]!;
+    clipRB[k] = (r >= clipThreshold ? 1 : 0) | (b >= clipThreshold ? 2 : 0);
+    r = r <= 0 ? 0 : r >= 255 ? 255 : r;
+    b = b <= 0 ? 0 : b >= 255 ? 255 : b;
+    rCode[k] = r;
+    bCode[k] = b;
+    r *= perCode; b *= perCode;
+    let i = r | 0;
+    let lo = linear[i]!;
+    rLinear[k] = lo + (r - i) * (linear[i + 1]! - lo);
+    i = b | 0;
+    lo = linear[i]!;
+    bLinear[k] = lo + (b - i) * (linear[i + 1]! - lo);
   }
-  return out;
+  return { rCode, rLinear, bCode, bLinear, clipRB };
 }
