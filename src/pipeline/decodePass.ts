@@ -22,7 +22,7 @@
 import type { ProbeResult } from '../media/probe.js';
 import { openAnalysisStream } from '../media/analysisStream.js';
 import type { CameraDecoding, Rect } from '../media/types.js';
-import { createRegionMeter } from '../measure/regionMeter.js';
+import { createRegionMeter, emptyMeasurement } from '../measure/regionMeter.js';
 import { createBlockMeter } from '../measure/blockMeter.js';
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
 
@@ -127,7 +127,10 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
     const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
     const { pieces, ringOf } = nestedPieces(local);
     const strides = ringOf.map((m) => (m > 0 ? ringStride : 1));
-    return { members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth), counts: g.map((r) => regions[r]!.w * regions[r]!.h) };
+    return {
+      members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth),
+      counts: g.map((r) => regions[r]!.w * regions[r]!.h), parts: pieces.map(emptyMeasurement),
+    };
   });
   const acc = new Float64Array(5);
   const blocks = step ? createBlockMeter(gw, gh, decoding, info.bitDepth > 8 ? info.bitDepth : 8) : null;
@@ -151,7 +154,7 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
     }
     for (let k = 0; k < plans.length; k++) {
       const plan = plans[k]!;
-      const parts = plan.meter.measure(frame.regions[k]!);
+      const parts = plan.meter.measureInto(frame.regions[k]!, plan.parts); // filled in place, no per-frame objects
       acc.fill(0);
       let piece = 0;
       for (let m = 0; m < plan.members.length; m++) {
