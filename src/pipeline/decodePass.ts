@@ -21,7 +21,7 @@
  */
 import type { ProbeResult } from '../media/probe.js';
 import { openAnalysisStream } from '../media/analysisStream.js';
-import type { CameraDecoding, Rect } from '../media/types.js';
+import type { CameraDecoding, Frame, Rect } from '../media/types.js';
 import { createRegionMeter, emptyMeasurement } from '../measure/regionMeter.js';
 import { createBlockMeter } from '../measure/blockMeter.js';
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
@@ -94,16 +94,61 @@ function grow(a: Float32Array, size: number): Float32Array<ArrayBuffer> {
   return out;
 }
 
-export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o: DecodePassOptions): Promise<DecodePassOutput> {
-  const info = probe.info;
-  const regions = o.regions;
-  const step = o.overviewStep;
+/** Regions in runs where each lies inside the next (beam ⊂ rings): each run shares one crop. */
+function nestedGroups(regions: readonly Rect[]): number[][] {
   const groups: number[][] = [];
   for (let r = 0; r < regions.length; r++) {
     const last = groups[groups.length - 1];
     if (last && isNestedChain([regions[last[last.length - 1]!]!, regions[r]!])) last.push(r);
     else groups.push([r]);
   }
+  return groups;
+}
+
+interface GroupPlan {
+  members: number[];
+  ringOf: number[];
+  pieces: Rect[];
+  meter: ReturnType<typeof createRegionMeter>;
+  counts: number[];
+  parts: ReturnType<typeof emptyMeasurement>[];
+}
+
+/** The disjoint pieces of one nested group inside its crop, with their meter (rings every `ringStride`-th row). */
+function groupPlan(g: number[], regions: readonly Rect[], crop: Rect, decoding: CameraDecoding, ringStride: number, bitDepth: number): GroupPlan {
+  const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
+  const { pieces, ringOf } = nestedPieces(local);
+  const strides = ringOf.map((m) => (m > 0 ? ringStride : 1));
+  return {
+    members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, bitDepth),
+    counts: g.map((r) => regions[r]!.w * regions[r]!.h), parts: pieces.map(emptyMeasurement),
+  };
+}
+
+/** One frame of one group: each member's mean as the area-weighted sum of its pieces. */
+function measureGroup(plan: GroupPlan, frame: Frame, series: RegionSeries[], n: number, acc: Float64Array): void {
+  const parts = plan.meter.measureInto(frame, plan.parts); // filled in place, no per-frame objects
+  acc.fill(0);
+  let piece = 0;
+  for (let m = 0; m < plan.members.length; m++) {
+    // cumulative sums: rect m = rect m−1 plus the pieces of ring m
+    while (piece < parts.length && plan.ringOf[piece] === m) {
+      const p = parts[piece]!;
+      const c = plan.pieces[piece]!.w * plan.pieces[piece]!.h; // the piece's area, also when rows were skipped
+      acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
+      piece++;
+    }
+    const x = series[plan.members[m]!]!;
+    const count = plan.counts[m]!;
+    x.luma[n] = acc[0]! / count; x.r[n] = acc[1]! / count; x.g[n] = acc[2]! / count; x.b[n] = acc[3]! / count; x.clipped[n] = acc[4]! / count;
+  }
+}
+
+export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o: DecodePassOptions): Promise<DecodePassOutput> {
+  const info = probe.info;
+  const regions = o.regions;
+  const step = o.overviewStep;
+  const groups = nestedGroups(regions);
   const outerOf = groups.map((g) => regions[g[g.length - 1]!]!);
   const stream = openAnalysisStream(probe, outerOf, {
     ...(step ? { step, overview: { kind: 'yuv16' as const, range: decoding.range } } : {}),
@@ -122,16 +167,7 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
   let rgb = step && o.channels ? { r: new Float32Array(cap * cells), g: new Float32Array(cap * cells), b: new Float32Array(cap * cells) } : undefined;
   let series = regions.map(() => newSeries(cap));
   const ringStride = o.ringRowStride ?? 1;
-  const plans = groups.map((g, k) => {
-    const crop = stream.crops[k]!;
-    const local = g.map((r) => ({ ...regions[r]!, x: regions[r]!.x - crop.x, y: regions[r]!.y - crop.y }));
-    const { pieces, ringOf } = nestedPieces(local);
-    const strides = ringOf.map((m) => (m > 0 ? ringStride : 1));
-    return {
-      members: g, ringOf, pieces, meter: createRegionMeter(crop.w, crop.h, pieces, decoding, strides, stream.regionBitDepth),
-      counts: g.map((r) => regions[r]!.w * regions[r]!.h), parts: pieces.map(emptyMeasurement),
-    };
-  });
+  const plans = groups.map((g, k) => groupPlan(g, regions, stream.crops[k]!, decoding, ringStride, stream.regionBitDepth));
   const acc = new Float64Array(5);
   const blocks = step ? createBlockMeter(gw, gh, decoding, info.bitDepth > 8 ? info.bitDepth : 8) : null;
   let n = 0;
@@ -152,24 +188,7 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
       const lo = n * cells, hi = lo + cells;
       blocks.measure(frame.overview, grid.subarray(lo, hi), clipped, lo, rgb ? { r: rgb.r.subarray(lo, hi), g: rgb.g.subarray(lo, hi), b: rgb.b.subarray(lo, hi) } : undefined);
     }
-    for (let k = 0; k < plans.length; k++) {
-      const plan = plans[k]!;
-      const parts = plan.meter.measureInto(frame.regions[k]!, plan.parts); // filled in place, no per-frame objects
-      acc.fill(0);
-      let piece = 0;
-      for (let m = 0; m < plan.members.length; m++) {
-        // cumulative sums: rect m = rect m−1 plus the pieces of ring m
-        while (piece < parts.length && plan.ringOf[piece] === m) {
-          const p = parts[piece]!;
-          const c = plan.pieces[piece]!.w * plan.pieces[piece]!.h; // the piece's area, also when rows were skipped
-          acc[0] += p.luma * c; acc[1] += p.r * c; acc[2] += p.g * c; acc[3] += p.b * c; acc[4] += p.clippedFraction * c;
-          piece++;
-        }
-        const x = series[plan.members[m]!]!;
-        const count = plan.counts[m]!;
-        x.luma[n] = acc[0]! / count; x.r[n] = acc[1]! / count; x.g[n] = acc[2]! / count; x.b[n] = acc[3]! / count; x.clipped[n] = acc[4]! / count;
-      }
-    }
+    for (let k = 0; k < plans.length; k++) measureGroup(plans[k]!, frame.regions[k]!, series, n, acc);
     n++;
   }
   const out: DecodePassOutput = {
