@@ -8,19 +8,10 @@
 import { describe, expect, it } from 'vitest';
 import { createRegionMeter, emptyMeasurement, LUMA_WEIGHTS, type RegionMeasurement } from '../../src/measure/regionMeter.js';
 import { yuvTables } from '../../src/core/camera/yuvToLinear.js';
+import { seededRandom } from '../helpers/random.js';
 import type { CameraDecoding, Frame, Rect } from '../../src/media/types.js';
 
-/** mulberry32: a small seeded generator (common practice), so a failure can be replayed. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const random = seededRandom; // mulberry32 (test/helpers/random.ts), so a failure can be replayed
 
 /** A 4:2:0 frame of random samples: smooth luma with noise plus a few fully random rows, so codes span 0..max and some clip. */
 function randomFrame(width: number, height: number, bitDepth: number, rnd: () => number): Frame {
