@@ -48,6 +48,8 @@ export interface MapProductsInput {
   floorFraction: number;
   /** The exclusion stage found exposure drift without a reference: point at a candidate card. */
   exposureDrifted: boolean;
+  /** The frame to draw the regions on, when the caller started taking it early (else the most modulated frame). */
+  frame?: FrameGrab;
 }
 
 export interface AutoRegions {
@@ -147,6 +149,21 @@ function showFrame(i: MapProductsInput): number {
 
 type Grabbed = { png: Buffer } | { error: unknown };
 
+/** A frame to draw the regions on, being taken from the video (ffmpeg seeks and decodes it). */
+export interface FrameGrab {
+  index: number;
+  grabbed: Promise<Grabbed>;
+}
+
+/**
+ * Starts taking frame `index` from the video; the promise settles at once into a value (never an
+ * unhandled rejection). Started early, the seek and decode run beside the fit on the other core.
+ */
+export function startFrameGrab(videoPath: string, times: Float64Array, startTimeS: number, index: number): FrameGrab {
+  const start = Number.isFinite(startTimeS) ? startTimeS : 0;
+  return { index, grabbed: grabFramePng(videoPath, Math.max(0, times[index]! - start)).then((png) => ({ png }), (error: unknown) => ({ error })) };
+}
+
 /** The regions drawn on the grabbed frame, or on a picture rebuilt from the maps without one. */
 async function regionsPicture(i: MapProductsInput, maps: ModulationMaps, overlay: OverlayRegion[], show: number, grabbed: Grabbed, warnings: RunWarning[]): Promise<Buffer> {
   if ('png' in grabbed) return renderRegionOverlay(grabbed.png, overlay, { sourceWidth: i.camera.width, sourceHeight: i.camera.height, caption: `frame ${show} at ${i.times[show]!.toFixed(2)} s` });
@@ -168,12 +185,10 @@ export async function mapProducts(i: MapProductsInput): Promise<MapProducts> {
   if (i.exposureDrifted && !i.reference && regions?.reference) {
     warnings.push({ code: 'reference-candidate', message: `a bright steady area at ${rectText(regions.reference.rect)} (x,y,w,h px) could serve as the reference region (--reference-roi) that corrects the exposure changes`, guideSection: 'lock-exposure' });
   }
-  // ffmpeg seeks and decodes while the maps are rendered (settled at once: never an unhandled rejection).
-  const show = showFrame(i);
-  const startS = Number.isFinite(i.startTimeS) ? i.startTimeS : 0;
-  const grab: Promise<Grabbed> = grabFramePng(i.videoPath, Math.max(0, i.times[show]! - startS)).then((png) => ({ png }), (error: unknown) => ({ error }));
+  // ffmpeg seeks and decodes while the maps are rendered, or since the caller started it.
+  const grab = i.frame ?? startFrameGrab(i.videoPath, i.times, i.startTimeS, showFrame(i));
   const [staticMapPng, modulatedMapPng] = await mapFigures(i, maps);
-  const frameWithRegionsPng = await regionsPicture(i, maps, overlayRegions(i, regions), show, await grab, warnings);
+  const frameWithRegionsPng = await regionsPicture(i, maps, overlayRegions(i, regions), grab.index, await grab.grabbed, warnings);
   const files: Record<string, Uint8Array> = {
     'maps/static.png': staticMapPng,
     'maps/modulated.png': modulatedMapPng,

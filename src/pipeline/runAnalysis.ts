@@ -34,7 +34,7 @@ import { derivedFigures } from './derivedFigures.js';
 import { budgetAndGates } from './budgetAndGates.js';
 import { runTrace } from './runTrace.js';
 import { runFigures, checkBaseline } from './runFigures.js';
-import { mapProducts, MAP_FILES, type MapProducts } from './mapProducts.js';
+import { mapProducts, startFrameGrab, MAP_FILES, type FrameGrab, type MapProducts } from './mapProducts.js';
 import { runFiles } from './runFiles.js';
 import { startInputHashes } from './inputHashes.js';
 import { videoRunRecord } from './videoRunRecord.js';
@@ -139,7 +139,15 @@ function beamTerms(clip: ClipMeasurement, o: AnalyzeOptions): { rect: Rect; weig
   return terms;
 }
 
-async function pictureStage(m: Measured, f: Fitted, o: AnalyzeOptions): Promise<MapProducts> {
+/** The brightest beam among the frames kept so far: the most modulated one, to draw the regions on. */
+function brightestFrame(m: Measured): number {
+  let show = -1;
+  const { intensity } = m.series;
+  for (let f = 0; f < intensity.length; f++) if (!m.exclusions.excluded[f] && Number.isFinite(intensity[f]!) && (show < 0 || intensity[f]! > intensity[show]!)) show = f;
+  return show < 0 ? intensity.length >> 1 : show;
+}
+
+async function pictureStage(m: Measured, f: Fitted, o: AnalyzeOptions, frame: FrameGrab | undefined): Promise<MapProducts> {
   const { clip } = m;
   return mapProducts({
     videoPath: o.videoPath, grid: clip.grid, times: clip.times, startTimeS: clip.info.startTimeS, camera: { width: clip.info.width, height: clip.info.height },
@@ -147,6 +155,7 @@ async function pictureStage(m: Measured, f: Fitted, o: AnalyzeOptions): Promise<
     // gains exist only with a reference region (without one they are all 1 and correct nothing)
     ...(o.referenceRoi ? { gain: m.series.gain, reference: o.referenceRoi } : {}),
     floorFraction: f.derived.floorFraction.value, exposureDrifted: m.exclusions.warnings.some((w) => w.code === 'exposure-drift'),
+    ...(frame ? { frame } : {}),
   });
 }
 
@@ -160,10 +169,12 @@ export async function runAnalysis(o: AnalyzeOptions, hooks: AnalyzeHooks, p: Run
   const inputPaths = { video: o.videoPath, volts: o.voltsPath, ...(o.openVideoPath !== undefined ? { openVideo: o.openVideoPath } : {}), ...(o.cameraProfilePath !== undefined ? { cameraProfile: o.cameraProfilePath } : {}) };
   const hashes = startInputHashes(inputPaths);
   const m = await measureStage(o, hooks);
+  const wantMaps = p.products !== false;
+  // The frame for regions.png is taken from the video beside the fit (the other core is free).
+  const frame = wantMaps ? startFrameGrab(o.videoPath, m.clip.times, m.clip.info.startTimeS, brightestFrame(m)) : undefined;
   const f = fitStage(m, o, p.baseline);
   // Maps need a modulation term that varies; a run whose V_π is not identifiable has none.
-  const wantMaps = p.products !== false;
-  const products = wantMaps && f.fitted.fit.identifiable ? await pictureStage(m, f, o) : null;
+  const products = wantMaps && f.fitted.fit.identifiable ? await pictureStage(m, f, o, frame) : null;
   const mapWarnings = products ? products.warnings : wantMaps ? [NO_MAPS] : [];
   const files = runFiles({ extraFiles: products ? [...MAP_FILES] : [], report: p.report !== false, trace: f.trace.trace, linearised: f.derived.linearised, syncCurvePoints: Math.min(f.synced.sync.curve.offsetS.length, f.synced.sync.curve.score.length) });
   const inputs = { ...(await hashes.done()), ...(p.baselineSource ? { baseline: p.baselineSource } : {}) };
