@@ -106,6 +106,24 @@ function departureFromTags(table: ResponseTable, codeRange: [number, number], tr
 
 const CHANNELS = ['r', 'g', 'b'] as const;
 
+/** The profile record: what the fit found, where it came from, and the run's provenance. */
+function profileOf(hooks: CalibrateHooks, camera: Record<string, string>, settings: Record<string, string>, decoding: CameraProfile['decoding'], source: CameraProfile['source'],
+  fit: { table: ResponseTable; codeRange: [number, number]; residualRms: number }, tagged: TransferName | null): CameraProfile {
+  return {
+    kind: CAMERA_PROFILE_KIND,
+    version: CAMERA_PROFILE_VERSION,
+    createdAt: hooks.now,
+    tool: { name: 'kerrtrace', version: hooks.toolVersion },
+    camera,
+    settings,
+    decoding,
+    source,
+    response: fit.table,
+    codeRange: fit.codeRange,
+    fit: { residualRms: fit.residualRms, departureFromTags: departureFromTags(fit.table, fit.codeRange, tagged) ?? NaN },
+  };
+}
+
 async function calibrateFromVideo(o: CalibrateOptions, hooks: CalibrateHooks): Promise<CalibrationOutcome> {
   const notes: string[] = [];
   const probe = await probeMedia(o.inputPath);
@@ -186,19 +204,7 @@ async function calibrateFromVideo(o: CalibrateOptions, hooks: CalibrateHooks): P
     ...(info.meanFps !== null ? { fps: info.meanFps.toFixed(3) } : {}),
     ...(tags.creation_time ? { recordedAt: tags.creation_time } : {}),
   };
-  const profile: CameraProfile = {
-    kind: CAMERA_PROFILE_KIND,
-    version: CAMERA_PROFILE_VERSION,
-    createdAt: hooks.now,
-    tool: { name: 'kerrtrace', version: hooks.toolVersion },
-    camera,
-    settings,
-    decoding: { range: decoding.range, matrix: decoding.matrix, transferTag: info.colourTransfer, bitDepth: info.bitDepth },
-    source,
-    response: fit.table,
-    codeRange: fit.codeRange,
-    fit: { residualRms: fit.residualRms, departureFromTags: departureFromTags(fit.table, fit.codeRange, tagged) ?? NaN },
-  };
+  const profile = profileOf(hooks, camera, settings, { range: decoding.range, matrix: decoding.matrix, transferTag: info.colourTransfer, bitDepth: info.bitDepth }, source, fit, tagged);
   return { profile, notes };
 }
 
@@ -276,18 +282,7 @@ async function calibrateFromPhotos(o: CalibrateOptions, hooks: CalibrateHooks): 
   } catch {
     notes.push('the photos carry no readable EXIF block, so the profile does not name the camera');
   }
-  const profile: CameraProfile = {
-    kind: CAMERA_PROFILE_KIND,
-    version: CAMERA_PROFILE_VERSION,
-    createdAt: hooks.now,
-    tool: { name: 'kerrtrace', version: hooks.toolVersion },
-    camera,
-    settings,
-    decoding: { range: 'full', matrix: 'rgb', transferTag: 'srgb', bitDepth: 8 },
-    source: { kind: 'photo-angles', files: photos.map((p) => p.file), points: fit.points, brightestAtDeg: found.brightestAtDeg, channel: CHANNELS[channel]! },
-    response: fit.table,
-    codeRange: fit.codeRange,
-    fit: { residualRms: fit.residualRms, departureFromTags: departureFromTags(fit.table, fit.codeRange, 'srgb') ?? NaN },
-  };
+  const profile = profileOf(hooks, camera, settings, { range: 'full', matrix: 'rgb', transferTag: 'srgb', bitDepth: 8 },
+    { kind: 'photo-angles', files: photos.map((p) => p.file), points: fit.points, brightestAtDeg: found.brightestAtDeg, channel: CHANNELS[channel]! }, fit, 'srgb');
   return { profile, notes };
 }
