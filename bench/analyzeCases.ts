@@ -6,7 +6,7 @@
  * process (bench/analyzeChild.ts) so its peak memory is its own; (g) runs a 5-minute concatenation
  * of the same run once, to show how memory grows with clip length.
  */
-import { execFile, spawn } from 'node:child_process';
+import { execFile } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -17,6 +17,7 @@ import { simulateRun } from '../src/sim/simulate.js';
 import type { Rect } from '../src/media/types.js';
 import { childrenCpuS } from './cpuTime.js';
 import type { BenchCase, CaseOutcome } from './timeIt.js';
+import { runChildReport, type ChildReport } from './childReport.js';
 
 const execFileAsync = promisify(execFile);
 const here = dirname(fileURLToPath(import.meta.url)); // dist/bench
@@ -50,34 +51,20 @@ export async function analyzeBenchClip(cacheDir: string): Promise<{ dir: string;
   return { dir, roi: { x, y, w, h }, frames: truth.frameCount };
 }
 
-async function decodeToNull(clip: string, frames: number): Promise<CaseOutcome> {
+/** ffmpeg decodes every frame and throws it away: the ceiling the ratios are measured against. */
+export async function decodeToNull(clip: string, frames: number): Promise<CaseOutcome> {
   const before = childrenCpuS();
   await execFileAsync(ffmpegPath(), ['-hide_banner', '-nostdin', '-v', 'error', '-i', clip, '-map', '0:v:0', '-vsync', '0', '-f', 'null', '-']);
   return { frames, cpuS: childrenCpuS() - before };
 }
 
 /** The analyze job in a child process (bench/analyzeChild.ts): time, CPU, peak RSS and the decodes it started. */
-function analyzeInChild(dir: string, roi: Rect | undefined): Promise<CaseOutcome> {
-  return new Promise((resolveOutcome, reject) => {
-    const args = [join(here, 'analyzeChild.js'), dir, '50', '5', roi ? `${roi.x},${roi.y},${roi.w},${roi.h}` : 'auto'];
-    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'inherit'] });
-    let out = '';
-    child.stdout.setEncoding('utf8');
-    child.stdout.on('data', (text: string) => { out += text; });
-    child.on('error', reject);
-    child.on('close', () => {
-      try {
-        const r = JSON.parse(out.trim().split('\n').pop() ?? '{}') as { frames?: number; seconds?: number; cpuS?: number; maxRssKb?: number; decodes?: number; B?: number; maps?: string; error?: string };
-        if (r.error !== undefined || r.frames === undefined || r.seconds === undefined) throw new Error(r.error ?? `no result from the child: ${out}`);
-        resolveOutcome({
-          frames: r.frames, seconds: r.seconds, ...(typeof r.cpuS === 'number' ? { cpuS: r.cpuS } : {}),
-          extra: { B: `${(r.B ?? NaN).toExponential(3)} m/V^2`, maps: r.maps ?? '?', decodes: String(r.decodes ?? '?'), 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` },
-        });
-      } catch (e) {
-        reject(e);
-      }
-    });
-  });
+async function analyzeInChild(dir: string, roi: Rect | undefined): Promise<CaseOutcome> {
+  const r = await runChildReport([join(here, 'analyzeChild.js'), dir, '50', '5', roi ? `${roi.x},${roi.y},${roi.w},${roi.h}` : 'auto']) as ChildReport & { decodes?: number; B?: number; maps?: string };
+  return {
+    frames: r.frames, seconds: r.seconds, ...(typeof r.cpuS === 'number' ? { cpuS: r.cpuS } : {}),
+    extra: { B: `${(r.B ?? NaN).toExponential(3)} m/V^2`, maps: r.maps ?? '?', decodes: String(r.decodes ?? '?'), 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` },
+  };
 }
 
 /**

@@ -23,7 +23,7 @@
  *      decode in (e) and (f). Set KERRTRACE_BENCH_LONG=0 to leave out (g).
  * More cases: add a BenchCase ({ name, run }) to the list in main(); see timeIt.ts.
  */
-import { execFile, spawn } from 'node:child_process';
+import { execFile } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync } from 'node:fs';
 import { mkdtemp } from 'node:fs/promises';
 import { tmpdir, cpus } from 'node:os';
@@ -33,9 +33,9 @@ import { promisify } from 'node:util';
 import sharp from 'sharp';
 import { ffmpegPath, locate } from '../src/media/ffmpegPaths.js';
 import type { Rect } from '../src/media/types.js';
-import { childrenCpuS } from './cpuTime.js';
 import { formatResult, runCases, type BenchCase, type CaseOutcome, type CaseResult } from './timeIt.js';
-import { analyzeBenchClip, analyzeCases, longBenchRun } from './analyzeCases.js';
+import { analyzeBenchClip, analyzeCases, decodeToNull, longBenchRun } from './analyzeCases.js';
+import { runChildReport, type ChildReport } from './childReport.js';
 
 const execFileAsync = promisify(execFile);
 const here = dirname(fileURLToPath(import.meta.url)); // dist/bench
@@ -75,38 +75,16 @@ async function benchClip(): Promise<string> {
   return path;
 }
 
-/** (a) ffmpeg decodes every frame and throws it away. */
-async function decodeToNull(clip: string, frames: number): Promise<CaseOutcome> {
-  const cpuBeforeS = childrenCpuS();
-  await execFileAsync(ffmpegPath(), ['-hide_banner', '-nostdin', '-v', 'error', '-i', clip, '-map', '0:v:0', '-vsync', '0', '-f', 'null', '-']);
-  return { frames, cpuS: childrenCpuS() - cpuBeforeS };
-}
 
 /** (b) the trace pipeline in a child process; time and peak RSS measured by the child. */
-function traceInChild(clip: string, regions: Rect[], maxFrames?: number, wholeFrames = false): Promise<CaseOutcome> {
-  return new Promise((resolveOutcome, reject) => {
-    const args = [join(here, 'traceChild.js'), clip, JSON.stringify(regions)];
-    args.push(maxFrames !== undefined ? String(maxFrames) : 'all');
-    if (wholeFrames) args.push('whole');
-    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'inherit'] });
-    let out = '';
-    child.stdout.setEncoding('utf8');
-    child.stdout.on('data', (s: string) => { out += s; });
-    child.on('error', reject);
-    child.on('close', () => {
-      try {
-        const r = JSON.parse(out.trim().split('\n').pop() ?? '{}') as { frames?: number; seconds?: number; cpuS?: number; maxRssKb?: number; crops?: number; error?: string };
-        if (r.error !== undefined || r.frames === undefined || r.seconds === undefined) throw new Error(r.error ?? `no result from the child: ${out}`);
-        const extra: Record<string, string> = { 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` };
-        if (r.crops !== undefined) extra.pipes = String(r.crops);
-        const outcome: CaseOutcome = { frames: r.frames, seconds: r.seconds, extra };
-        if (typeof r.cpuS === 'number') outcome.cpuS = r.cpuS;
-        resolveOutcome(outcome);
-      } catch (e) {
-        reject(e);
-      }
-    });
-  });
+async function traceInChild(clip: string, regions: Rect[], maxFrames?: number, wholeFrames = false): Promise<CaseOutcome> {
+  const args = [join(here, 'traceChild.js'), clip, JSON.stringify(regions), maxFrames !== undefined ? String(maxFrames) : 'all', ...(wholeFrames ? ['whole'] : [])];
+  const r = await runChildReport(args) as ChildReport & { crops?: number };
+  const extra: Record<string, string> = { 'peak RSS': `${((r.maxRssKb ?? 0) / 1024).toFixed(0)} MB` };
+  if (r.crops !== undefined) extra.pipes = String(r.crops);
+  const outcome: CaseOutcome = { frames: r.frames, seconds: r.seconds, extra };
+  if (typeof r.cpuS === 'number') outcome.cpuS = r.cpuS;
+  return outcome;
 }
 
 /** (c) a PNG per frame from ffmpeg, then sharp's stats() on each region crop, file by file. */
