@@ -93,7 +93,7 @@ export function derivedFigures(d: DerivedInput): DerivedFigures {
       fit: { floor: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
       polariserAngleDeg: cell.polariserAngleDeg, ...(cell.staticRetardanceRad !== undefined ? { staticRetardanceRad: cell.staticRetardanceRad } : {}),
       ...(d.openLevel !== undefined ? { openLevel: d.openLevel } : {}),
-      effectiveLengthM: cell.effectiveLengthM, gapM: cell.gapM, kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+      effectiveLengthM: cell.effectiveLengthM, gapM: cell.gapM, kerrConstant: fit.kerrConstant.value, errorInflation: fit.errorInflation,
     }),
   });
   warnings.push(...response.warnings);

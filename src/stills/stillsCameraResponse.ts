@@ -45,7 +45,6 @@ export function stillsCameraResponse(i: StillsResponseInput): { record: CameraRe
     effectiveLengthM: i.effectiveLengthM,
     gapM: i.gapM,
     kerrConstant: fit.kerrConstant.value,
-    kerrStdErr: fit.kerrConstant.stdErr ?? 0,
     errorInflation: fit.errorInflation,
   });
   const out = cameraResponseRecord({

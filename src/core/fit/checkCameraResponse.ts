@@ -16,16 +16,16 @@
  *
  * Reported: γ ± σ_γ (σ from the fit covariance, inflated by the main fit's factor for correlated
  * residuals), B at the fitted γ against B at γ = 1 (the main fit), and the standard uncertainty of
- * B from the response, u = √((B_γ − B_1)² + max(0, σ²(B_γ) − σ²(B_1))): the shift an uncorrected
- * response departure would leave, plus the extra scatter from letting the response free (a GUM
- * Type B term, JCGM 100:2008 §4.3 and F.2.4.5). `departs` when |γ − 1| > 2σ_γ and |γ − 1| > 0.02
+ * B from the response: the check's γ combined with the prior γ = 1 ± 0.02 (posteriorResponseTerm),
+ * the root-mean-square shift an uncorrected response departure would leave (a GUM Type B term,
+ * JCGM 100:2008 §4.3 and F.2.4.5). `departs` when |γ − 1| > 2σ_γ and |γ − 1| > 0.02
  * (about a 0.5 % change of slope per decade of light: below that, compression and noise make a
  * departure meaningless in practice; our choice).
  *
  * Pure. Throws nothing: a failed or unidentifiable check comes back with `checked: false` and the
  * reason.
  * @example checkCameraResponse({ voltageV, intensity, used, fit: { floor: 0.01, amplitude: 0.5, halfWaveVoltageV: 9000 },
- *   polariserAngleDeg: 45, effectiveLengthM: 0.05, gapM: 0.005, kerrConstant: 2.4e-12, kerrStdErr: 1e-14, errorInflation: 1.5 })
+ *   polariserAngleDeg: 45, effectiveLengthM: 0.05, gapM: 0.005, kerrConstant: 2.4e-12, errorInflation: 1.5 })
  */
 import { levenbergMarquardt, type CurveModel } from './levenbergMarquardt.js';
 import { modulationTerm, polariserAngleFactor } from '../physics/modulationTerm.js';
@@ -42,9 +42,8 @@ export interface ResponseCheckInput {
   openLevel?: number;
   effectiveLengthM: number;
   gapM: number;
-  /** B of the main fit and its standard error, m/V². */
+  /** B of the main fit, m/V². */
   kerrConstant: number;
-  kerrStdErr: number;
   /** The main fit's factor for correlated residuals (≥ 1). */
   errorInflation: number;
 }
@@ -87,6 +86,36 @@ function skipped(reason: string): ResponseCheck {
  * "camera-response term without a check").
  */
 export const PRIOR_GAMMA_STD_ERR = 0.02;
+
+/**
+ * A check whose γ̂ lies more than this many combined standard deviations √(σ² + u₀²) from 1
+ * contradicts the prior (a prior-predictive check at about 3σ, common practice), and the prior is
+ * then left out of the camera-response term.
+ */
+export const PRIOR_CONFLICT_Z = 3;
+
+/**
+ * The camera-response term from a check that ran. Without a departure, the check's γ̂ ± σ is
+ * combined with the prior γ = 1 ± u₀ (u₀ = PRIOR_GAMMA_STD_ERR) as two Gaussian measurements
+ * (inverse-variance weights, the usual Bayesian update of a Type B state of knowledge, GUM
+ * Supplement 1 §6), and the term is the root-mean-square error that leaving B at γ = 1 makes under
+ * what is then known of γ:
+ *   λ = (1/σ²)/(1/σ² + 1/u₀²),  γ_p − 1 = λ·(γ̂ − 1),  u_p² = λ·σ²,
+ *   u(B) = |s|·√((γ_p − 1)² + u_p²),  s = dB/dγ along the joint fit (its covariance).
+ * A weak check (σ ≫ u₀) tends to the prior term |s|·u₀, as for a run without a check; a sharp one to
+ * |s|·√((γ̂ − 1)² + σ²). When the check contradicts the prior (a prior-data conflict:
+ * |γ̂ − 1| > PRIOR_CONFLICT_Z·√(σ² + u₀²), e.g. a phone curve its tags do not describe) the prior,
+ * made from footage that follows its tags, is left out and the shift is taken as refitted (a large
+ * departure is not linear in γ): u(B) = √((B_γ − B₁)² + s²σ²).
+ */
+export function posteriorResponseTerm(c: { gamma: number; gammaErr: number; slope: number; shift: number }): number {
+  const sigma2 = c.gammaErr * c.gammaErr;
+  const u02 = PRIOR_GAMMA_STD_ERR * PRIOR_GAMMA_STD_ERR;
+  if (Math.abs(c.gamma - 1) > PRIOR_CONFLICT_Z * Math.sqrt(sigma2 + u02)) return Math.sqrt(c.shift * c.shift + c.slope * c.slope * sigma2);
+  const lambda = (1 / sigma2) / (1 / sigma2 + 1 / u02);
+  const offset = lambda * (c.gamma - 1);
+  return Math.abs(c.slope) * Math.sqrt(offset * offset + lambda * sigma2);
+}
 
 /**
  * B's sensitivity to the response exponent when the check cannot run: refit K, φ and V_π with γ held
@@ -198,16 +227,17 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
   const vpiErr = res.stdErr[3]! * inflation;
   const bGamma = (input.gapM * input.gapM) / (2 * input.effectiveLengthM * vpi * vpi);
   const bGammaErr = bGamma * 2 * (vpiErr / vpi);
-  const shift = bGamma - input.kerrConstant;
-  const extraVar = Math.max(0, bGammaErr * bGammaErr - input.kerrStdErr * input.kerrStdErr);
   const departs = Math.abs(gamma - 1) > 2 * gammaErr && Math.abs(gamma - 1) > 0.02;
+  // s = dB/dγ along the joint fit, cov(B, γ)/var(γ) = (2B/V_π)·κ²·cov(V_π, κ)/var(κ)
+  const slope = (2 * bGamma / vpi) * kappa * kappa * res.covariance[3 * 4 + 2]! / res.covariance[2 * 4 + 2]!;
+  const term = posteriorResponseTerm({ gamma, gammaErr, slope, shift: bGamma - input.kerrConstant });
   return {
     checked: true,
     reason: null,
     gamma: { value: gamma, stdErr: gammaErr },
     kerrConstantAtGamma: { value: bGamma, stdErr: bGammaErr, unit: 'm/V^2' },
     relativeShiftB: bGamma / input.kerrConstant - 1,
-    standardUncertainty: { value: Math.sqrt(Math.max(shift * shift, extraVar)), unit: 'm/V^2' },
+    standardUncertainty: { value: term, unit: 'm/V^2' },
     departs,
   };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkCameraResponse, PRIOR_GAMMA_STD_ERR } from '../../../src/core/fit/checkCameraResponse.js';
+import { checkCameraResponse, posteriorResponseTerm, PRIOR_GAMMA_STD_ERR } from '../../../src/core/fit/checkCameraResponse.js';
 import { fitKerrCurve } from '../../../src/core/fit/fitKerrCurve.js';
 import { makeRng } from '../../../src/sim/rng.js';
 
@@ -21,7 +21,7 @@ function run(gamma: number, reach: number, seed: number, withOpenLevel = false, 
     voltageV: v, intensity: y, used: Uint8Array.from(fit.outliers, (x) => 1 - x),
     fit: { floor: fit.floorLevel.value, amplitude: fit.amplitude.value, halfWaveVoltageV: fit.halfWaveVoltage.value },
     polariserAngleDeg: 45, effectiveLengthM: L, gapM: D,
-    kerrConstant: fit.kerrConstant.value, kerrStdErr: fit.kerrConstant.stdErr ?? 0, errorInflation: fit.errorInflation,
+    kerrConstant: fit.kerrConstant.value, errorInflation: fit.errorInflation,
     // the open level is measured through the same camera: (floor + amplitude)^(1/γ)
     ...(withOpenLevel ? { openLevel: Math.pow(0.51, 1 / gamma) } : {}),
   });
@@ -67,5 +67,34 @@ describe('checkCameraResponse: a power-law departure fitted jointly with V_π', 
     // a first-order sensitivity times u(γ): equal to the actual error within a third
     expect(check.standardUncertainty.value / error).toBeGreaterThan(0.67);
     expect(check.standardUncertainty.value / error).toBeLessThan(1.5);
+  });
+});
+
+describe('posteriorResponseTerm: the check combined with the prior γ = 1 ± u₀', () => {
+  // B moves by s per unit of γ; the check measured γ̂ = 1 + shift/s with σ, so σ²(B_γ) − σ²(B₁) = s²σ²
+  const s = 1e-12;
+  const term = (gammaHat: number, sigma: number) =>
+    posteriorResponseTerm({ gamma: gammaHat, gammaErr: sigma, slope: s, shift: s * (gammaHat - 1) });
+
+  it('a weak check (σ ≫ u₀) gives the prior term |s|·u₀, as a run without a check', () => {
+    expect(term(1.01, 1) / (s * PRIOR_GAMMA_STD_ERR)).toBeCloseTo(1, 3);
+  });
+
+  it('a sharp check (σ ≪ u₀) gives the shift plus its scatter', () => {
+    const t = term(1.01, 1e-4);
+    expect(t / (s * Math.hypot(0.01, 1e-4))).toBeCloseTo(1, 3);
+  });
+
+  it('equal weights halve the shift and the variance (the textbook mean of two measurements)', () => {
+    const u0 = PRIOR_GAMMA_STD_ERR;
+    // λ = 1/2: γ_p − 1 = (γ̂ − 1)/2, u_p² = u0²/2
+    expect(term(1 + 2 * u0, u0) / (s * Math.hypot(u0, u0 / Math.SQRT2))).toBeCloseTo(1, 9);
+  });
+
+  it('a check that contradicts the prior (beyond 3 combined σ) leaves it out: the term is the check alone', () => {
+    // 0.3 from 1 against √(0.05² + 0.02²) = 0.054: a conflict
+    expect(term(1.3, 0.05) / (s * Math.hypot(0.3, 0.05))).toBeCloseTo(1, 9);
+    // 0.1 from 1 against √(0.05² + 0.02²): no conflict, the prior pulls the term down
+    expect(term(1.1, 0.05)).toBeLessThan(s * Math.hypot(0.1, 0.05));
   });
 });
