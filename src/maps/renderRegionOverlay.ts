@@ -117,8 +117,9 @@ export async function renderRegionOverlay(framePng: Buffer, regions: OverlayRegi
   }
   const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${FONT}">${legend}${shapes}</svg>`;
   const base = enlarge > 1 ? sharp(framePng).resize(fw, fh, { kernel: 'nearest' }) : sharp(framePng);
-  const prepared = await base.flatten({ background: '#000000' }).png().toBuffer();
-  return sharp(prepared)
+  // raw pixels between the two steps (no intermediate PNG to compress and read again)
+  const prepared = await base.flatten({ background: '#000000' }).raw().toBuffer({ resolveWithObject: true });
+  return sharp(prepared.data, { raw: { width: prepared.info.width, height: prepared.info.height, channels: prepared.info.channels } })
     .extend({ bottom: legendH, background: '#ffffff' })
     .composite([{ input: Buffer.from(svg), top: 0, left: 0 }])
     .png()

@@ -45,6 +45,11 @@ export interface ProbeResult {
   streamIndex: number;
   /** Frames a full decode should deliver: packets found, or the container's count when the data ends early. */
   expectedFrames: number;
+  /**
+   * Presentation times of the keyframes (packets flagged K), seconds, ascending; empty when the
+   * container marks none. A seek decodes from the keyframe at or before the time asked for.
+   */
+  keyframeTimesS: Float64Array;
   /** True when the file's data stops before its index says it should (cut or interrupted recording). */
   endsEarly: boolean;
   /** Smallest, median and largest interval between consecutive frames, s (null below 2 frames). */
@@ -177,6 +182,8 @@ function lastLine(text: string, path: string): string {
 interface PacketTimes {
   pts: number[];
   dts: number[];
+  /** pts of the packets flagged K (keyframes). */
+  keyPts: number[];
   ptsComplete: boolean;
   dtsComplete: boolean;
   count: number;
@@ -189,6 +196,7 @@ async function readPackets(path: string, streamIndex: number, signal: AbortSigna
   const r = await runProcess(ffprobePath(), args, signal === undefined ? {} : { signal });
   const pts: number[] = [];
   const dts: number[] = [];
+  const keyPts: number[] = [];
   let ptsComplete = true, dtsComplete = true, count = 0, discarded = 0;
   for (const line of r.stdout.split('\n')) {
     if (!line.includes('pts_time=')) continue;
@@ -202,10 +210,11 @@ async function readPackets(path: string, streamIndex: number, signal: AbortSigna
     const p = finiteNumber(fields.pts_time);
     const d = finiteNumber(fields.dts_time);
     if (p === null) ptsComplete = false; else pts.push(p);
+    if (p !== null && (fields.flags ?? '').includes('K')) keyPts.push(p);
     if (d === null) dtsComplete = false; else dts.push(d);
   }
   const endsEarly = /partial file|truncat/i.test(r.stderr);
-  return { pts, dts, ptsComplete, dtsComplete, count, discarded, endsEarly };
+  return { pts, dts, keyPts, ptsComplete, dtsComplete, count, discarded, endsEarly };
 }
 
 function intervalStats(sorted: Float64Array): { min: number; median: number; max: number; intervals: Float64Array } | null {
@@ -349,6 +358,7 @@ export async function probeMedia(path: string, opts: { signal?: AbortSignal } = 
     timeSource,
     streamIndex: stream.index,
     expectedFrames,
+    keyframeTimesS: Float64Array.from(packets.keyPts).sort(),
     endsEarly,
     frameIntervalS: stats === null ? null : { min: stats.min, median: stats.median, max: stats.max },
     notes,

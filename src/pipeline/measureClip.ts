@@ -56,6 +56,8 @@ export interface ClipMeasurement {
   /** The camera profile used instead of the transfer curve, with its path. */
   cameraProfile?: { path: string; profile: CameraProfile };
   times: Float64Array;
+  /** Keyframe presentation times from the probe, s (empty when the container marks none). */
+  keyframeTimesS: Float64Array;
   nFrames: number;
   grid: GridStore;
   beamRect: Rect;
@@ -200,7 +202,7 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   }, warnings);
 
   return {
-    info, decoding, ...(cameraProfile ? { cameraProfile } : {}), times: pass.times, nFrames, grid, beamRect, beamAuto: !o.roi, geom, haveSurround,
+    info, decoding, ...(cameraProfile ? { cameraProfile } : {}), times: pass.times, keyframeTimesS: probe.keyframeTimesS, nFrames, grid, beamRect, beamAuto: !o.roi, geom, haveSurround,
     beam: beamAndRings[0]!, background,
     ...(o.darkRoi ? { darkLuma: pass.regions[idx.dark!]!.luma } : {}),
     ...(o.referenceRoi ? { referenceLuma: pass.regions[idx.reference!]!.luma } : {}),

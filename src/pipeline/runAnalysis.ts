@@ -38,6 +38,7 @@ import { mapProducts, startFrameGrab, MAP_FILES, type FrameGrab, type MapProduct
 import { runFiles } from './runFiles.js';
 import { startInputHashes } from './inputHashes.js';
 import { videoRunRecord } from './videoRunRecord.js';
+import { showFrame } from './showFrame.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 
 export interface RunAnalysisOptions {
@@ -139,14 +140,6 @@ function beamTerms(clip: ClipMeasurement, o: AnalyzeOptions): { rect: Rect; weig
   return terms;
 }
 
-/** The brightest beam among the frames kept so far: the most modulated one, to draw the regions on. */
-function brightestFrame(m: Measured): number {
-  let show = -1;
-  const { intensity } = m.series;
-  for (let f = 0; f < intensity.length; f++) if (!m.exclusions.excluded[f] && Number.isFinite(intensity[f]!) && (show < 0 || intensity[f]! > intensity[show]!)) show = f;
-  return show < 0 ? intensity.length >> 1 : show;
-}
-
 async function pictureStage(m: Measured, f: Fitted, o: AnalyzeOptions, frame: FrameGrab | undefined): Promise<MapProducts> {
   const { clip } = m;
   return mapProducts({
@@ -171,7 +164,7 @@ export async function runAnalysis(o: AnalyzeOptions, hooks: AnalyzeHooks, p: Run
   const m = await measureStage(o, hooks);
   const wantMaps = p.products !== false;
   // The frame for regions.png is taken from the video beside the fit (the other core is free).
-  const frame = wantMaps ? startFrameGrab(o.videoPath, m.clip.times, m.clip.info.startTimeS, brightestFrame(m)) : undefined;
+  const frame = wantMaps ? startFrameGrab(o.videoPath, m.clip.times, m.clip.info.startTimeS, showFrame(m.series.intensity, m.exclusions.excluded, m.clip.times, m.clip.keyframeTimesS)) : undefined;
   const f = fitStage(m, o, p.baseline);
   // Maps need a modulation term that varies; a run whose V_π is not identifiable has none.
   const products = wantMaps && f.fitted.fit.identifiable ? await pictureStage(m, f, o, frame) : null;
