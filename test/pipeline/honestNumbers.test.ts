@@ -134,6 +134,14 @@ describe('issue 12: honest numbers on simulated runs', () => {
     expect(outcome).toMatch(/^(not valid|refused)/);
   }, 60_000);
 
+  it('heavy compression (CRF 45, where a dim spot lags the drive and the dark level follows its history): marked not valid as compression-starved, not a silent number', async () => {
+    const base = scenario(45, triangle, { sampleRateHz: 20, clockOffsetS: 0.3 }) as { camera: Record<string, unknown> };
+    const { dir, truth } = await render('starved', { ...base, camera: { ...base.camera, crf: 45 } });
+    const { result } = await analyzeRun(options(dir, truth.roi), hooks);
+    expect(result.validity?.valid).toBe(false);
+    expect(result.validity?.failures.map((f) => f.gate)).toContain('compression-starved');
+  }, 60_000);
+
   it('refuses a reference region on the beam (it would "correct" exposure with the signal)', async () => {
     const { dir, truth } = await render('refonbeam', scenario(38, triangle, { sampleRateHz: 10, clockOffsetS: 0 }));
     const r = truth.roi;
