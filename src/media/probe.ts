@@ -30,7 +30,7 @@
 import { open, stat } from 'node:fs/promises';
 import { KerrError } from '../errors.js';
 import { ffprobePath, locate } from './ffmpegPaths.js';
-import { runProcess } from './runProcess.js';
+import { runProcess, type ProcessOutcome } from './runProcess.js';
 import type { ColourRange, VideoInfo } from './types.js';
 import { missingPathText } from '../io/missingPathText.js';
 
@@ -191,9 +191,19 @@ interface PacketTimes {
   endsEarly: boolean;
 }
 
-async function readPackets(path: string, streamIndex: number, signal: AbortSignal | undefined): Promise<PacketTimes> {
-  const args = ['-v', 'error', '-select_streams', String(streamIndex), '-show_entries', 'packet=pts_time,dts_time,flags', '-of', 'compact=p=0', ffmpegInput(path)];
-  const r = await runProcess(ffprobePath(), args, signal === undefined ? {} : { signal });
+/**
+ * The packet list of every video stream, started beside the stream probe (it does not wait for the
+ * stream's index; readPackets keeps the chosen stream's lines). Never rejects: a failure comes
+ * back as the error, for the caller to throw only if the stream probe succeeded.
+ */
+function startPacketList(path: string, signal: AbortSignal | undefined): Promise<ProcessOutcome | { error: unknown }> {
+  const args = ['-v', 'error', '-select_streams', 'v', '-show_entries', 'packet=stream_index,pts_time,dts_time,flags', '-of', 'compact=p=0', ffmpegInput(path)];
+  return runProcess(ffprobePath(), args, signal === undefined ? {} : { signal }).catch((error: unknown) => ({ error }));
+}
+
+async function readPackets(listing: Promise<ProcessOutcome | { error: unknown }>, streamIndex: number): Promise<PacketTimes> {
+  const r = await listing;
+  if ('error' in r) throw r.error;
   const pts: number[] = [];
   const dts: number[] = [];
   const keyPts: number[] = [];
@@ -205,6 +215,7 @@ async function readPackets(path: string, streamIndex: number, signal: AbortSigna
       const eq = kv.indexOf('=');
       if (eq > 0) fields[kv.slice(0, eq)] = kv.slice(eq + 1);
     }
+    if (fields.stream_index !== String(streamIndex)) continue;
     if ((fields.flags ?? '').includes('D')) { discarded++; continue; } // cut by an edit list
     count++;
     const p = finiteNumber(fields.pts_time);
@@ -240,6 +251,7 @@ export async function probeMedia(path: string, opts: { signal?: AbortSignal } = 
   await checkFile(path);
   const ffprobe = locate('ffprobe');
   const args = ['-v', 'error', '-of', 'json', '-show_format', '-show_streams', ffmpegInput(path)];
+  const listing = startPacketList(path, opts.signal);
   const r = await runProcess(ffprobe.path, args, opts.signal === undefined ? {} : { signal: opts.signal });
   if (r.code !== 0) {
     if (/moov atom not found/i.test(r.stderr) && (await looksLikeIsoMedia(path))) {
@@ -271,7 +283,7 @@ export async function probeMedia(path: string, opts: { signal?: AbortSignal } = 
     });
   }
   const notes: string[] = [];
-  const packets = await readPackets(path, stream.index, opts.signal);
+  const packets = await readPackets(listing, stream.index);
 
   const nbFrames = finiteNumber(stream.nb_frames);
   const containerCount = nbFrames !== null && nbFrames > 0 ? Math.round(nbFrames) : null;
