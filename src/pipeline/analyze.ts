@@ -49,6 +49,8 @@ export interface AnalyzeOptions {
   wavelengthNm?: number;
   /** 'rgb': also fit the red, green and blue channels separately (white-light sources). */
   channels?: 'rgb';
+  /** Whole-grid rows of the block store before it is bounded (measureClip's maxGridRows); for tests. */
+  maxGridRows?: number;
   /** A camera response profile (kerrtrace calibrate-camera) to use instead of the transfer curve. */
   cameraProfilePath?: string;
   /** Logger accuracy, ± percent of reading (default 1, common practice; docs/uncertainty.md). */

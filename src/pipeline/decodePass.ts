@@ -12,8 +12,9 @@
  *   a clipped-block bit set, and the three channels when `channels` is asked for; a region made of
  *   whole blocks is then measured from the store without a second pass (blockSeries.ts).
  * - Stream timing remarks (`notes`) are returned for the run's warnings.
- * Memory: the store is frames × blocks × 4 bytes (×4 with channels) plus frames × blocks / 8 bytes
- * of clip bits; the caller chooses the block size (chooseGridStep caps the store).
+ * Memory: one row per frame is frames × blocks × 4 bytes (×4 with channels) plus frames × blocks / 8
+ * bytes of clip bits; with `bounded` the store keeps at most maxRows rows and a full-rate window
+ * (blockStore.ts), so a long clip costs little more than a short one.
  * @throws the stream's errors (TRUNCATED_MEDIA, FFMPEG_FAILED, FFMPEG_MISSING, BAD_REGION).
  * @example
  * const p = await decodePass(probe, decoding, { regions: [roi], overviewStep: 12 });
@@ -25,6 +26,8 @@ import type { CameraDecoding, Frame, Rect } from '../media/types.js';
 import { createRegionMeter, emptyMeasurement } from '../measure/regionMeter.js';
 import { createBlockMeter } from '../measure/blockMeter.js';
 import { isNestedChain, nestedPieces } from '../core/regions/nestedPieces.js';
+import type { CellBox } from '../core/regions/cellGeometry.js';
+import { createBlockStore } from './blockStore.js';
 
 /** Per-block linear luminance of every frame, with the block geometry. */
 export interface GridStore {
@@ -39,6 +42,16 @@ export interface GridStore {
   clipped?: Uint8Array;
   /** Linear R, G, B per block, laid out like `data`, when channels were asked for. */
   rgb?: { r: Float32Array; g: Float32Array; b: Float32Array };
+  /**
+   * A bounded store (blockStore.ts) keeps whole-grid rows for some frames only: `frameOf[row]` is
+   * the clip frame of each row, `totalFrames` the clip's frames, `frameSum` every frame's sum over
+   * all blocks, and `window` every frame of a box of blocks (data laid out frame-major over the
+   * box's own width). Absent: one row per frame.
+   */
+  frameOf?: Int32Array;
+  totalFrames?: number;
+  frameSum?: Float64Array;
+  window?: { box: CellBox; data: Float32Array; clipped: Uint8Array; rgb?: { r: Float32Array; g: Float32Array; b: Float32Array } };
 }
 
 /** Per-frame means of one region: linear luminance, the three channels, and the clipped fraction. */
@@ -56,6 +69,8 @@ export interface DecodePassOptions {
   overviewStep?: number;
   /** Store R, G, B per block too (4× the store). */
   channels?: boolean;
+  /** Bound the store (blockStore.ts): at most maxRows whole-grid rows, every frame of a window. */
+  bounded?: { maxRows: number; windowFor: (rows: GridStore) => CellBox | null };
   /** Row stride of the outer pieces of nested regions (default 1). */
   ringRowStride?: number;
   maxFrames?: number;
@@ -85,12 +100,6 @@ export function newSeries(cap: number): RegionSeries {
 function resizeSeries(s: RegionSeries, size: number): RegionSeries {
   const out = newSeries(size);
   for (const k of SERIES_KEYS) out[k].set(s[k].subarray(0, Math.min(size, s[k].length)));
-  return out;
-}
-
-function grow(a: Float32Array, size: number): Float32Array<ArrayBuffer> {
-  const out = new Float32Array(size);
-  out.set(a.subarray(0, Math.min(size, a.length)));
   return out;
 }
 
@@ -162,9 +171,7 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
   let cap = Math.max(16, Math.min(o.maxFrames ?? Infinity, probe.expectedFrames, info.frameCount > 0 ? info.frameCount : Infinity) + 8);
   if (!Number.isFinite(cap)) cap = 1024;
   let times = new Float64Array(cap);
-  let grid = new Float32Array(step ? cap * cells : 0);
-  let clipped = new Uint8Array(step ? Math.ceil((cap * cells) / 8) : 0);
-  let rgb = step && o.channels ? { r: new Float32Array(cap * cells), g: new Float32Array(cap * cells), b: new Float32Array(cap * cells) } : undefined;
+  const store = step ? createBlockStore({ cells, gridWidth: gw, gridHeight: gh, step, capFrames: cap, ...(o.channels ? { channels: true } : {}), ...(o.bounded ? { bounded: o.bounded } : {}) }) : null;
   let series = regions.map(() => newSeries(cap));
   const ringStride = o.ringRowStride ?? 1;
   const plans = groups.map((g, k) => groupPlan(g, regions, stream.crops[k]!, decoding, ringStride, stream.regionBitDepth));
@@ -173,20 +180,15 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
   let n = 0;
   const growTo = (next: number): void => {
     const t2 = new Float64Array(next); t2.set(times); times = t2;
-    if (step) {
-      grid = grow(grid, next * cells);
-      const c2 = new Uint8Array(Math.ceil((next * cells) / 8)); c2.set(clipped); clipped = c2;
-      if (rgb) rgb = { r: grow(rgb.r, next * cells), g: grow(rgb.g, next * cells), b: grow(rgb.b, next * cells) };
-    }
     series = series.map((x) => resizeSeries(x, next));
     cap = next;
   };
   for await (const frame of stream.frames) {
     if (n >= cap) growTo(Math.ceil(cap * 1.5));
     times[n] = frame.timeS;
-    if (blocks && frame.overview) {
-      const lo = n * cells, hi = lo + cells;
-      blocks.measure(frame.overview, grid.subarray(lo, hi), clipped, lo, rgb ? { r: rgb.r.subarray(lo, hi), g: rgb.g.subarray(lo, hi), b: rgb.b.subarray(lo, hi) } : undefined);
+    if (blocks && store && frame.overview) {
+      const overview = frame.overview;
+      store.add(n, (luma, clip, bitOffset, rgb) => blocks.measure(overview, luma, clip, bitOffset, rgb));
     }
     for (let k = 0; k < plans.length; k++) measureGroup(plans[k]!, frame.regions[k]!, series, n, acc);
     n++;
@@ -198,12 +200,6 @@ export async function decodePass(probe: ProbeResult, decoding: CameraDecoding, o
     crops: stream.crops,
     notes: [...stream.notes],
   };
-  if (step) {
-    out.grid = {
-      data: grid.subarray(0, n * cells), frames: n, gridWidth: gw, gridHeight: gh, step,
-      clipped: clipped.subarray(0, Math.ceil((n * cells) / 8)),
-      ...(rgb ? { rgb: { r: rgb.r.subarray(0, n * cells), g: rgb.g.subarray(0, n * cells), b: rgb.b.subarray(0, n * cells) } } : {}),
-    };
-  }
+  if (store) out.grid = store.finish();
   return out;
 }

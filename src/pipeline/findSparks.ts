@@ -6,25 +6,22 @@
  * @example findSparks(clip).flags[f] === 1 → frame f is a spark
  */
 import { detectFlashes, type FlashDetection } from '../core/events/detectFlashes.js';
-import { frameMeans } from '../core/events/frameMeans.js';
+import { boxSumSeries, frameMeansOf } from './gridAccess.js';
 import type { ClipMeasurement } from './measureClip.js';
 
 export function findSparks(clip: Pick<ClipMeasurement, 'grid' | 'geom' | 'beamRect' | 'nFrames'>): FlashDetection {
-  const { grid, nFrames } = clip;
+  const { grid } = clip;
   const cells = grid.gridWidth * grid.gridHeight;
-  const frameMean = frameMeans(grid.data, nFrames, cells);
+  const frameMean = frameMeansOf(grid);
   const outer = clip.geom ? clip.geom.b1 : clip.beamRect;
   const cx0 = Math.floor(outer.x / grid.step), cy0 = Math.floor(outer.y / grid.step);
   const cx1 = Math.min(grid.gridWidth - 1, Math.ceil((outer.x + outer.w) / grid.step) - 1);
   const cy1 = Math.min(grid.gridHeight - 1, Math.ceil((outer.y + outer.h) / grid.step) - 1);
   const inside = Math.max(0, cx1 - cx0 + 1) * Math.max(0, cy1 - cy0 + 1);
   if (cells - inside < 16) return detectFlashes(frameMean);
-  const outside = new Float64Array(nFrames);
-  for (let f = 0; f < nFrames; f++) {
-    let sIn = 0;
-    const off = f * cells;
-    for (let y = cy0; y <= cy1; y++) for (let x = cx0; x <= cx1; x++) sIn += grid.data[off + y * grid.gridWidth + x]!;
-    outside[f] = (frameMean[f]! * cells - sIn) / (cells - inside);
-  }
+  const boxSum = boxSumSeries(grid, { x0: cx0, y0: cy0, x1: cx1, y1: cy1 });
+  if (!boxSum) return detectFlashes(frameMean); // outside a bounded store's window: the whole frame
+  const outside = new Float64Array(frameMean.length);
+  for (let f = 0; f < outside.length; f++) outside[f] = (frameMean[f]! * cells - boxSum[f]!) / (cells - inside);
   return detectFlashes(outside);
 }

@@ -36,6 +36,7 @@ import { median } from '../core/fit/robustScale.js';
 import { quantity, type Quantity } from '../quantity.js';
 import type { RunEvent, RunWarning } from '../result/schema.js';
 import type { FlashDetection } from '../core/events/detectFlashes.js';
+import { boxSumSeries, frameMeansOf } from './gridAccess.js';
 import type { ClipMeasurement } from './measureClip.js';
 import type { CorrectedSeries } from './correctedSeries.js';
 
@@ -163,20 +164,24 @@ export function particleExclusions(input: ParticleInput): ParticleExclusions {
   return { excluded, events, particleRate };
 }
 
+/** Mean outside a box of blocks at every frame (a bounded store: from its window; outside it, the whole frame). */
+function outsideBox(grid: PreSyncInput['clip']['grid'], frameMean: Float64Array, box: CellBox): Float64Array {
+  if (!grid.window) return outsideBoxSeries(grid.data, frameMean, grid.gridWidth, grid.gridHeight, box);
+  const inside = boxSumSeries(grid, box);
+  if (!inside) return frameMean;
+  const cells = grid.gridWidth * grid.gridHeight, area = cellBoxArea(box);
+  return frameMean.map((m, f) => (cells * m - inside[f]!) / (cells - area));
+}
+
 /** The background outside the beam (grown by half its width), per frame, from the grid. */
 function backgroundLevel(clip: PreSyncInput['clip'], gain: Float64Array | null): Float64Array {
   const { grid } = clip;
   const gw = grid.gridWidth, gh = grid.gridHeight, cells = gw * gh;
-  const frameMean = new Float64Array(grid.frames);
-  for (let f = 0; f < grid.frames; f++) {
-    let s = 0;
-    for (let c = 0; c < cells; c++) s += grid.data[f * cells + c]!;
-    frameMean[f] = s / cells;
-  }
+  const frameMean = frameMeansOf(grid);
   const beamBox = rectToCellBox(clip.beamRect, grid.step, gw, gh);
   let keepOut: CellBox | null = beamBox ? growCellBox(beamBox, Math.max(2, Math.ceil((beamBox.x1 - beamBox.x0 + 1) / 2)), gw, gh) : null;
   if (keepOut && cellBoxArea(keepOut) >= cells) keepOut = beamBox;
-  const raw = keepOut && cellBoxArea(keepOut) < cells ? outsideBoxSeries(grid.data, frameMean, gw, gh, keepOut) : frameMean;
+  const raw = keepOut && cellBoxArea(keepOut) < cells ? outsideBox(grid, frameMean, keepOut) : frameMean;
   return gain ? raw.map((v, f) => (gain[f]! > 0 ? v / gain[f]! : NaN)) : raw;
 }
 

@@ -27,6 +27,7 @@ import { encodeMapFiles } from '../maps/encodeMapFiles.js';
 import { renderRegionOverlay, type OverlayRegion } from '../maps/renderRegionOverlay.js';
 import { renderLinearGreyPng } from '../maps/renderLinearGreyPng.js';
 import { grabFramePng } from '../media/grabFrame.js';
+import { atRows } from './gridAccess.js';
 import type { GridStore } from './measureClip.js';
 
 export interface MapProductsInput {
@@ -179,7 +180,8 @@ async function regionsPicture(i: MapProductsInput, maps: ModulationMaps, overlay
 export async function mapProducts(i: MapProductsInput): Promise<MapProducts> {
   const { grid } = i;
   const warnings: RunWarning[] = [];
-  const maps = modulationMaps({ grid: grid.data, frames: grid.frames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, modulation: i.modulation, usable: i.used, ...(i.gain ? { gain: i.gain } : {}) });
+  // the rows the store kept (every frame, or evenly spaced ones for a bounded store)
+  const maps = modulationMaps({ grid: grid.data, frames: grid.frames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, modulation: atRows(grid, i.modulation), usable: atRows(grid, i.used), ...(i.gain ? { gain: atRows(grid, i.gain) } : {}) });
   const regions = findRegions(i, maps, warnings);
   const haloToCoreRatio = halo(i, maps, regions, warnings);
   if (i.exposureDrifted && !i.reference && regions?.reference) {

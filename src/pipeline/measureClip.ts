@@ -20,7 +20,7 @@ import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
 import { decodePass, type GridStore, type RegionSeries } from './decodePass.js';
 import { blockSeries } from './blockSeries.js';
 import { validateRect } from '../measure/rect.js';
-import type { CellBox } from '../core/regions/cellGeometry.js';
+import { growCellBox, rectToCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import { findClipBeam } from './findClipBeam.js';
 import { measureOpenClip } from './measureOpenClip.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
@@ -38,6 +38,8 @@ export interface ClipOptions {
   cameraProfilePath?: string;
   /** 'rgb': the per-channel series of an automatically found beam are kept too (4× the block store). */
   channels?: 'rgb';
+  /** Whole-grid rows the block store keeps before it is bounded (default storeRows: about 30 s of 1080p); for tests. */
+  maxGridRows?: number;
 }
 
 export type { GridStore, RegionSeries } from './decodePass.js';
@@ -82,14 +84,37 @@ export interface ClipHooks {
 }
 
 /**
- * Grid step: about 160 blocks across, at least 2 px, and at most ~60 M stored values (240 MB of
- * Float32) over `arrays` per-block arrays (1: luminance; 4 with the three channels).
+ * Grid step: about 160 blocks across and at least 2 px, whatever the clip's length (the store is
+ * bounded instead, storeRows).
  */
-export function chooseGridStep(info: VideoInfo, arrays = 1): number {
-  let step = Math.max(2, Math.ceil(info.width / 160));
-  const frames = Math.max(1, info.frameCount);
-  while ((info.width / step) * (info.height / step) * frames * arrays > 60e6) step++;
-  return step;
+export function chooseGridStep(info: VideoInfo): number {
+  return Math.max(2, Math.ceil(info.width / 160));
+}
+
+/**
+ * Values the whole-grid rows of the block store may hold (our choice): 16 M, about what a 30-s
+ * 1080p clip at 160 × 90 blocks needs (13 M), so clips up to about that length keep one row per
+ * frame and longer ones a bounded store (blockStore.ts) whose memory stays near this size.
+ */
+export const STORE_ROW_VALUES = 16e6;
+
+/** Whole-grid rows the store keeps for a grid of `cells` blocks and `arrays` arrays per block. */
+export function storeRows(cells: number, arrays: number): number {
+  return Math.max(64, Math.floor(STORE_ROW_VALUES / (cells * arrays)));
+}
+
+/**
+ * The blocks a bounded store keeps at every frame around a beam box: grown by the beam's own size
+ * plus 4 blocks each side, which holds the surround rings (findClipBeam: 1 + 2·⌈size/3⌉ blocks out),
+ * the background's keep-out box (half the beam's width) and a provisional beam's drift.
+ */
+export function windowAround(beam: CellBox, gridWidth: number, gridHeight: number): CellBox {
+  const size = Math.max(beam.x1 - beam.x0 + 1, beam.y1 - beam.y0 + 1);
+  return growCellBox(beam, size + 4, gridWidth, gridHeight);
+}
+
+function boxInside(inner: CellBox, outer: CellBox): boolean {
+  return inner.x0 >= outer.x0 && inner.y0 >= outer.y0 && inner.x1 <= outer.x1 && inner.y1 <= outer.y1;
 }
 
 function backgroundOf(regions: RegionSeries[], weights: readonly number[] | null, nFrames: number): BackgroundSeries {
@@ -169,8 +194,22 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   const { idx } = plan;
   let geom = plan.geom;
   const channels = o.channels === 'rgb' && !o.roi;
+  const step = chooseGridStep(info);
+  const gw = Math.floor(info.width / step), gh = Math.floor(info.height / step);
+  // A given beam fixes the window at once; a beam to be found, the one found on the rows so far.
+  const roiBox = o.roi ? rectToCellBox(o.roi, step, gw, gh) : null;
+  const windowFor = (rows: GridStore): CellBox | null => {
+    if (roiBox) return windowAround(roiBox, gw, gh);
+    try {
+      return windowAround(findClipBeam(rows).boxes[0], gw, gh);
+    } catch (e) {
+      if (e instanceof KerrError && e.code === 'BAD_REGION') return null; // no beam in the frames so far: ask again later
+      throw e;
+    }
+  };
   const pass = await decodePass(probe, decoding, {
-    regions: plan.regions, overviewStep: chooseGridStep(info, channels ? 4 : 1), ringRowStride: 2, channels,
+    regions: plan.regions, overviewStep: step, ringRowStride: 2, channels,
+    bounded: { maxRows: o.maxGridRows ?? storeRows(gw * gh, channels ? 4 : 1), windowFor },
     ...(hooks.onProgress ? { onProgress: (d: number, t: number) => hooks.onProgress!('decoding', d, t) } : {}),
   });
   for (const note of pass.notes) warnings.push({ code: 'probe', message: note });
@@ -184,7 +223,16 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   if (o.roi) {
     beamAndRings = geom ? [pass.regions[idx.beam!]!, pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [pass.regions[idx.beam!]!];
   } else {
-    const found = findClipBeam(grid, nFrames);
+    const found = findClipBeam(grid);
+    // the outer ring holds the background's keep-out box too (1 + 2·⌈size/3⌉ ≥ ⌈size/2⌉ blocks out)
+    if (grid.window && !boxInside(found.boxes[3], grid.window.box)) {
+      // the beam over the whole clip is not where the first part of it put the kept blocks:
+      // read the clip again with the beam found as the region (rare: a beam that moves or first lights late)
+      const again = await measureClip(opened, { ...o, roi: found.geom.beam }, hooks);
+      const b = found.geom.beam;
+      again.warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px, away from where the clip's first ${grid.frames} frames put it, so the clip was read a second time with that region (full resolution); check it in the report, or give --roi` });
+      return { ...again, beamAuto: true };
+    }
     geom = found.geom;
     blocks = { boxes: found.boxes, step: grid.step };
     // docs/analyze.md gives the measured difference of block means from a full-resolution read

@@ -1,0 +1,99 @@
+/**
+ * The bounded block store (src/pipeline/blockStore.ts): memory that does not grow with the clip's
+ * length, yet every frame of the blocks around the beam and every frame's mean kept. Checked
+ * against the unbounded store of the same decode, value for value: the window and the frame means
+ * are the same numbers, the rows kept are evenly spaced and hold the same numbers as those frames'
+ * rows, and the beam found on them is the beam found on every frame.
+ */
+import { describe, expect, it } from 'vitest';
+import { createBlockStore } from '../../src/pipeline/blockStore.js';
+import { decodePass } from '../../src/pipeline/decodePass.js';
+import { openClip, windowAround } from '../../src/pipeline/measureClip.js';
+import { findClipBeam } from '../../src/pipeline/findClipBeam.js';
+import { blockSeries } from '../../src/pipeline/blockSeries.js';
+import { atRows, clipFrames, frameMeansOf } from '../../src/pipeline/gridAccess.js';
+import { frameMeans } from '../../src/core/events/frameMeans.js';
+import { testMediaFile } from '../helpers/referenceData.js';
+
+describe('createBlockStore', () => {
+  // 4×3 blocks; block c of frame f holds f + c/100; block 5 of every 7th frame is clipped
+  const gw = 4, gh = 3, cells = gw * gh;
+  const fill = (f: number) => (luma: Float32Array, clipped: Uint8Array, bitOffset: number) => {
+    for (let c = 0; c < cells; c++) luma[c] = f + c / 100;
+    if (f % 7 === 0) { const bit = bitOffset + 5; clipped[bit >> 3] |= 1 << (bit & 7); }
+  };
+
+  it('unbounded: one row per frame', () => {
+    const s = createBlockStore({ cells, gridWidth: gw, gridHeight: gh, step: 8, capFrames: 4 });
+    for (let f = 0; f < 50; f++) s.add(f, fill(f));
+    const g = s.finish();
+    expect(g.frames).toBe(50);
+    expect(g.frameOf).toBeUndefined();
+    expect(g.data[49 * cells + 3]).toBeCloseTo(49.03, 5);
+  });
+
+  it('bounded: at most maxRows rows, evenly spaced; every frame of the window and every frame sum kept', () => {
+    const window = { x0: 1, y0: 1, x1: 2, y1: 2 };
+    const s = createBlockStore({ cells, gridWidth: gw, gridHeight: gh, step: 8, capFrames: 10, bounded: { maxRows: 16, windowFor: () => window } });
+    for (let f = 0; f < 100; f++) s.add(f, fill(f));
+    const g = s.finish();
+    expect(clipFrames(g)).toBe(100);
+    expect(g.frames).toBeLessThanOrEqual(16);
+    const rows = Array.from(g.frameOf!);
+    const stride = rows[1]! - rows[0]!;
+    expect(rows[0]).toBe(0);
+    expect(stride).toBe(8); // 100 frames into 16 rows: 1 → 2 → 4 → 8
+    rows.forEach((f, r) => { expect(f).toBe(r * stride); expect(g.data[r * cells + 2]).toBeCloseTo(f + 0.02, 5); });
+    // the window: 2×2 blocks, every frame; block (2, 1) = c 6
+    for (const f of [0, 1, 37, 99]) expect(g.window!.data[f * 4 + 1]).toBeCloseTo(f + 0.06, 5);
+    // clip bits of block 5 = window (1, 1) → local index 0, every 7th frame
+    for (let f = 0; f < 100; f++) expect((g.window!.clipped[(f * 4) >> 3]! >> ((f * 4) & 7)) & 1).toBe(f % 7 === 0 ? 1 : 0);
+    const means = frameMeansOf(g);
+    for (const f of [0, 5, 99]) expect(means[f]).toBeCloseTo(f + (cells - 1) / 200, 5);
+    expect(Array.from(atRows(g, Float64Array.from({ length: 100 }, (_, f) => f)))).toEqual(rows);
+  });
+});
+
+describe('bounded store on a real decode (test-media cfr-ramp)', () => {
+  it('gives the found beam, its block series and the frame means of the unbounded store', async () => {
+    const opened = await openClip({ videoPath: testMediaFile('cfr-ramp', 'run', 'clip.mp4') });
+    const step = 4;
+    const full = await decodePass(opened.probe, opened.decoding, { regions: [], overviewStep: step });
+    const grid = full.grid!;
+    const found = findClipBeam(grid);
+    const bounded = await decodePass(opened.probe, opened.decoding, {
+      regions: [], overviewStep: step,
+      // no beam in the first 40 frames (the drive holds at zero): the store waits for one
+      bounded: { maxRows: 40, windowFor: (rows) => { try { return windowAround(findClipBeam(rows).boxes[0], grid.gridWidth, grid.gridHeight); } catch { return null; } } },
+    });
+    const b = bounded.grid!;
+    expect(b.frameOf).toBeDefined();
+    expect(b.frames).toBeLessThanOrEqual(40);
+    expect(clipFrames(b)).toBe(full.frames);
+    const again = findClipBeam(b);
+    expect(again.boxes[0]).toEqual(found.boxes[0]);
+    // every frame of the beam and its rings: the same numbers as the unbounded store's
+    for (const box of found.boxes) {
+      const a = blockSeries(grid, box), c = blockSeries(b, box);
+      expect(Array.from(c.luma)).toEqual(Array.from(a.luma));
+      expect(Array.from(c.clipped)).toEqual(Array.from(a.clipped));
+    }
+    const m1 = frameMeans(grid.data, grid.frames, grid.gridWidth * grid.gridHeight), m2 = frameMeansOf(b);
+    for (let f = 0; f < m1.length; f++) expect(m2[f]).toBeCloseTo(m1[f]!, 12);
+  });
+});
+
+describe('analyze with a bounded block store (as a long clip gets)', () => {
+  it('cfr-ramp with the store bounded at 40 rows: the same beam and B as with one row per frame', async () => {
+    const { analyzeRun } = await import('../../src/pipeline/analyze.js');
+    const { readFileSync } = await import('node:fs');
+    const sc = JSON.parse(readFileSync(testMediaFile('cfr-ramp', 'scenario.json'), 'utf8')) as { cell: { lengthMm: number; gapMm: number } };
+    const o = { videoPath: testMediaFile('cfr-ramp', 'run', 'clip.mp4'), voltsPath: testMediaFile('cfr-ramp', 'run', 'volts.csv'), lengthMm: sc.cell.lengthMm, gapMm: sc.cell.gapMm };
+    const hooks = { toolVersion: 'test', ffmpegVersion: null };
+    const full = (await analyzeRun(o, hooks)).result;
+    const bounded = (await analyzeRun({ ...o, maxGridRows: 40 }, hooks)).result;
+    expect(bounded.regions.beam).toEqual(full.regions.beam);
+    expect(bounded.kerrConstant.value / full.kerrConstant.value - 1).toBeCloseTo(0, 6);
+    expect(bounded.halfWaveVoltage.value / full.halfWaveVoltage.value - 1).toBeCloseTo(0, 6);
+  }, 60_000);
+});
