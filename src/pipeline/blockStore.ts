@@ -71,40 +71,56 @@ interface Window {
   cap: number;
 }
 
-export function createBlockStore(o: BlockStoreOptions): BlockStore {
-  const { cells, gridWidth } = o;
-  let cap = Math.max(16, o.capFrames);
-  // bounded mode, once the rows fill and a window is known
-  let window: Window | null = null;
-  // rows are capped at maxRows once the window is known; until then they grow with the frames
-  const rowCap = (): number => (o.bounded && window ? o.bounded.maxRows : cap);
-  let nextTry = o.bounded?.maxRows ?? Infinity;
-  let data = new Float32Array(rowCap() * cells);
-  let clipped = new Uint8Array(Math.ceil((rowCap() * cells) / 8));
-  let rgb = o.channels ? newRgb(rowCap() * cells) : undefined;
-  let rows = 0;
-  let frames = 0;
-  let stride = 1;
-  let frameOf: Int32Array | null = null;
-  let frameSum: Float64Array | null = null;
-  const scratch = { luma: new Float32Array(cells), clipped: new Uint8Array(Math.ceil(cells / 8)), rgb: o.channels ? newRgb(cells) : undefined };
+class Store implements BlockStore {
+  private readonly cells: number;
+  private cap: number;
+  private data: Float32Array;
+  private clipped: Uint8Array;
+  private rgb: Rgb | undefined;
+  private rows = 0;
+  private frames = 0;
+  /** Bounded mode, once the rows fill and a window is known. */
+  private window: Window | null = null;
+  private nextTry: number;
+  private stride = 1;
+  private frameOf: Int32Array | null = null;
+  private frameSum: Float64Array | null = null;
+  private readonly scratch: { luma: Float32Array; clipped: Uint8Array; rgb: Rgb | undefined };
 
-  const view = (): GridStore => ({
-    data: data.subarray(0, rows * cells), frames: rows, gridWidth, gridHeight: o.gridHeight, step: o.step,
-    clipped: clipped.subarray(0, Math.ceil((rows * cells) / 8)),
-    ...(rgb ? { rgb: { r: rgb.r.subarray(0, rows * cells), g: rgb.g.subarray(0, rows * cells), b: rgb.b.subarray(0, rows * cells) } } : {}),
-  });
+  constructor(private readonly o: BlockStoreOptions) {
+    this.cells = o.cells;
+    this.cap = Math.max(16, o.capFrames);
+    // a bounded store starts at its row cap, not at the clip's length
+    const n = (o.bounded ? Math.min(this.cap, o.bounded.maxRows) : this.cap) * this.cells;
+    this.data = new Float32Array(n);
+    this.clipped = new Uint8Array(Math.ceil(n / 8));
+    this.rgb = o.channels ? newRgb(n) : undefined;
+    this.nextTry = o.bounded?.maxRows ?? Infinity;
+    this.scratch = { luma: new Float32Array(this.cells), clipped: new Uint8Array(Math.ceil(this.cells / 8)), rgb: o.channels ? newRgb(this.cells) : undefined };
+  }
+
+  private view(): GridStore {
+    const { rows, cells, rgb } = this;
+    return {
+      data: this.data.subarray(0, rows * cells), frames: rows, gridWidth: this.o.gridWidth, gridHeight: this.o.gridHeight, step: this.o.step,
+      clipped: this.clipped.subarray(0, Math.ceil((rows * cells) / 8)),
+      ...(rgb ? { rgb: { r: rgb.r.subarray(0, rows * cells), g: rgb.g.subarray(0, rows * cells), b: rgb.b.subarray(0, rows * cells) } } : {}),
+    };
+  }
+
+  private growWindow(w: Window, f: number): void {
+    const next = Math.ceil(Math.max(f + 1, w.cap * 1.5));
+    w.data = grow32(w.data, next * w.cells);
+    w.clipped = growBytes(w.clipped, Math.ceil((next * w.cells) / 8));
+    if (w.rgb) w.rgb = { r: grow32(w.rgb.r, next * w.cells), g: grow32(w.rgb.g, next * w.cells), b: grow32(w.rgb.b, next * w.cells) };
+    w.cap = next;
+  }
 
   /** Copies one frame's window blocks (from a row of `src` at `srcOff`, bits from `srcBit`) into the window at frame f. */
-  function toWindow(f: number, src: Float32Array, srcRgb: Rgb | undefined, srcClip: Uint8Array, srcOff: number, srcBit: number): void {
-    const w = window!;
-    if (f >= w.cap) {
-      const next = Math.ceil(Math.max(f + 1, w.cap * 1.5));
-      w.data = grow32(w.data, next * w.cells);
-      w.clipped = growBytes(w.clipped, Math.ceil((next * w.cells) / 8));
-      if (w.rgb) w.rgb = { r: grow32(w.rgb.r, next * w.cells), g: grow32(w.rgb.g, next * w.cells), b: grow32(w.rgb.b, next * w.cells) };
-      w.cap = next;
-    }
+  private toWindow(f: number, src: Float32Array, srcRgb: Rgb | undefined, srcClip: Uint8Array, srcOff: number, srcBit: number): void {
+    const w = this.window!;
+    if (f >= w.cap) this.growWindow(w, f);
+    const gridWidth = this.o.gridWidth;
     let k = f * w.cells;
     for (let y = w.box.y0; y <= w.box.y1; y++) {
       for (let x = w.box.x0; x <= w.box.x1; x++, k++) {
@@ -117,101 +133,127 @@ export function createBlockStore(o: BlockStoreOptions): BlockStore {
     }
   }
 
-  function sumRow(src: Float32Array, off: number): number {
+  private sumRow(src: Float32Array, off: number): number {
     let s = 0;
-    for (let c = 0; c < cells; c++) s += src[off + c]!;
+    for (let c = 0; c < this.cells; c++) s += src[off + c]!;
     return s;
   }
 
   /** The rows are full: take the window, keep its blocks and the frame sums of the rows so far (false: no window yet). */
-  function startBounding(): boolean {
-    const box = o.bounded!.windowFor(view());
+  private startBounding(): boolean {
+    const box = this.o.bounded!.windowFor(this.view());
     if (!box) return false;
+    const { cells, cap } = this;
     const width = box.x1 - box.x0 + 1;
     const wcells = width * (box.y1 - box.y0 + 1);
-    window = { box, width, cells: wcells, data: new Float32Array(cap * wcells), clipped: new Uint8Array(Math.ceil((cap * wcells) / 8)), ...(rgb ? { rgb: newRgb(cap * wcells) } : {}), cap };
-    frameOf = Int32Array.from({ length: rows }, (_, r) => r);
-    frameSum = new Float64Array(cap);
-    for (let r = 0; r < rows; r++) {
-      toWindow(r, data, rgb, clipped, r * cells, r * cells);
-      frameSum[r] = sumRow(data, r * cells);
+    this.window = { box, width, cells: wcells, data: new Float32Array(cap * wcells), clipped: new Uint8Array(Math.ceil((cap * wcells) / 8)), ...(this.rgb ? { rgb: newRgb(cap * wcells) } : {}), cap };
+    this.frameOf = Int32Array.from({ length: this.rows }, (_, r) => r);
+    this.frameSum = new Float64Array(cap);
+    for (let r = 0; r < this.rows; r++) {
+      this.toWindow(r, this.data, this.rgb, this.clipped, r * cells, r * cells);
+      this.frameSum[r] = this.sumRow(this.data, r * cells);
     }
-    const maxRows = o.bounded!.maxRows;
-    while (rows > maxRows) compact();
-    if (data.length > maxRows * cells) {
-      data = data.slice(0, maxRows * cells);
-      clipped = clipped.slice(0, Math.ceil((maxRows * cells) / 8));
-      if (rgb) rgb = { r: rgb.r.slice(0, maxRows * cells), g: rgb.g.slice(0, maxRows * cells), b: rgb.b.slice(0, maxRows * cells) };
+    const maxRows = this.o.bounded!.maxRows;
+    while (this.rows > maxRows) this.compact();
+    if (this.data.length > maxRows * cells) {
+      const n = maxRows * cells;
+      this.data = this.data.slice(0, n);
+      this.clipped = this.clipped.slice(0, Math.ceil(n / 8));
+      if (this.rgb) this.rgb = { r: this.rgb.r.slice(0, n), g: this.rgb.g.slice(0, n), b: this.rgb.b.slice(0, n) };
     }
     return true;
   }
 
   /** Keeps every other row (those at multiples of twice the stride); the stride doubles. */
-  function compact(): void {
+  private compact(): void {
+    const { cells, rgb, frameOf } = this;
     let kept = 0;
-    const bits = new Uint8Array(clipped.length);
-    for (let r = 0; r < rows; r++) {
-      if (frameOf![r]! % (2 * stride) !== 0) continue;
-      data.copyWithin(kept * cells, r * cells, (r + 1) * cells);
+    const bits = new Uint8Array(this.clipped.length);
+    for (let r = 0; r < this.rows; r++) {
+      if (frameOf![r]! % (2 * this.stride) !== 0) continue;
+      this.data.copyWithin(kept * cells, r * cells, (r + 1) * cells);
       if (rgb) for (const ch of [rgb.r, rgb.g, rgb.b]) ch.copyWithin(kept * cells, r * cells, (r + 1) * cells);
       for (let c = 0; c < cells; c++) {
         const from = r * cells + c, to = kept * cells + c;
-        if ((clipped[from >> 3]! >> (from & 7)) & 1) bits[to >> 3] |= 1 << (to & 7);
+        if ((this.clipped[from >> 3]! >> (from & 7)) & 1) bits[to >> 3] |= 1 << (to & 7);
       }
       frameOf![kept] = frameOf![r]!;
       kept++;
     }
-    clipped = bits;
-    rows = kept;
-    stride *= 2;
+    this.clipped = bits;
+    this.rows = kept;
+    this.stride *= 2;
   }
 
-  function add(f: number, measure: MeasureBlocks): void {
-    frames = Math.max(frames, f + 1);
-    if (f >= cap) {
-      cap = Math.ceil(Math.max(f + 1, cap * 1.5));
-      if (frameSum) { const s2 = new Float64Array(cap); s2.set(frameSum); frameSum = s2; }
-      const rc = rowCap();
-      if (rc * cells > data.length) {
-        data = grow32(data, rc * cells);
-        clipped = growBytes(clipped, Math.ceil((rc * cells) / 8));
-        if (rgb) rgb = { r: grow32(rgb.r, rc * cells), g: grow32(rgb.g, rc * cells), b: grow32(rgb.b, rc * cells) };
-      }
-    }
-    if (!window) {
+  /** Room for frame f in the per-frame arrays (capacity grows by half). */
+  private ensureCap(f: number): void {
+    if (f < this.cap) return;
+    this.cap = Math.ceil(Math.max(f + 1, this.cap * 1.5));
+    if (this.frameSum) { const s2 = new Float64Array(this.cap); s2.set(this.frameSum); this.frameSum = s2; }
+  }
+
+  /** Room for one more row before the window is known (grows by half; rows are capped only after). */
+  private ensureRowRoom(): void {
+    const { cells } = this;
+    if ((this.rows + 1) * cells <= this.data.length) return;
+    const n = Math.ceil(Math.max(this.rows + 1, (this.data.length / cells) * 1.5)) * cells;
+    this.data = grow32(this.data, n);
+    this.clipped = growBytes(this.clipped, Math.ceil(n / 8));
+    if (this.rgb) this.rgb = { r: grow32(this.rgb.r, n), g: grow32(this.rgb.g, n), b: grow32(this.rgb.b, n) };
+  }
+
+  add(f: number, measure: MeasureBlocks): void {
+    this.frames = Math.max(this.frames, f + 1);
+    this.ensureCap(f);
+    const { cells } = this;
+    if (!this.window) {
       // every frame its own row, measured in place (the unbounded store, bit for bit)
-      const lo = rows * cells, hi = lo + cells;
-      measure(data.subarray(lo, hi), clipped, lo, rgb ? { r: rgb.r.subarray(lo, hi), g: rgb.g.subarray(lo, hi), b: rgb.b.subarray(lo, hi) } : undefined);
-      rows++;
-      if (rows >= nextTry && !startBounding()) nextTry *= 2;
+      this.ensureRowRoom();
+      const lo = this.rows * cells, hi = lo + cells;
+      const rgb = this.rgb;
+      measure(this.data.subarray(lo, hi), this.clipped, lo, rgb ? { r: rgb.r.subarray(lo, hi), g: rgb.g.subarray(lo, hi), b: rgb.b.subarray(lo, hi) } : undefined);
+      this.rows++;
+      if (this.rows >= this.nextTry && !this.startBounding()) this.nextTry *= 2;
       return;
     }
-    scratch.clipped.fill(0);
-    measure(scratch.luma, scratch.clipped, 0, scratch.rgb);
-    toWindow(f, scratch.luma, scratch.rgb, scratch.clipped, 0, 0);
-    frameSum![f] = sumRow(scratch.luma, 0);
-    if (f % stride !== 0) return;
-    if (rows >= o.bounded!.maxRows) compact();
-    if (f % stride !== 0) return;
-    const lo = rows * cells;
-    data.set(scratch.luma, lo);
-    if (rgb && scratch.rgb) { rgb.r.set(scratch.rgb.r, lo); rgb.g.set(scratch.rgb.g, lo); rgb.b.set(scratch.rgb.b, lo); }
-    for (let c = 0; c < cells; c++) if ((scratch.clipped[c >> 3]! >> (c & 7)) & 1) { const bit = lo + c; clipped[bit >> 3] |= 1 << (bit & 7); }
-    frameOf![rows] = f;
-    rows++;
+    const sc = this.scratch;
+    sc.clipped.fill(0);
+    measure(sc.luma, sc.clipped, 0, sc.rgb);
+    this.toWindow(f, sc.luma, sc.rgb, sc.clipped, 0, 0);
+    this.frameSum![f] = this.sumRow(sc.luma, 0);
+    if (f % this.stride !== 0) return;
+    if (this.rows >= this.o.bounded!.maxRows) this.compact();
+    if (f % this.stride !== 0) return;
+    this.storeRow(f);
   }
 
-  function finish(): GridStore {
-    const grid = view();
-    if (!window) return grid;
-    const w = window;
+  /** The scratch frame becomes the next row. */
+  private storeRow(f: number): void {
+    const { cells, rgb } = this;
+    const sc = this.scratch;
+    const lo = this.rows * cells;
+    this.data.set(sc.luma, lo);
+    if (rgb && sc.rgb) { rgb.r.set(sc.rgb.r, lo); rgb.g.set(sc.rgb.g, lo); rgb.b.set(sc.rgb.b, lo); }
+    for (let c = 0; c < cells; c++) if ((sc.clipped[c >> 3]! >> (c & 7)) & 1) { const bit = lo + c; this.clipped[bit >> 3] |= 1 << (bit & 7); }
+    this.frameOf![this.rows] = f;
+    this.rows++;
+  }
+
+  finish(): GridStore {
+    const grid = this.view();
+    const w = this.window;
+    if (!w) return grid;
+    const n = this.frames * w.cells;
     return {
-      ...grid, totalFrames: frames, frameOf: frameOf!.slice(0, rows), frameSum: frameSum!.slice(0, frames),
+      ...grid, totalFrames: this.frames, frameOf: this.frameOf!.slice(0, this.rows), frameSum: this.frameSum!.slice(0, this.frames),
       window: {
-        box: w.box, data: w.data.subarray(0, frames * w.cells), clipped: w.clipped.subarray(0, Math.ceil((frames * w.cells) / 8)),
-        ...(w.rgb ? { rgb: { r: w.rgb.r.subarray(0, frames * w.cells), g: w.rgb.g.subarray(0, frames * w.cells), b: w.rgb.b.subarray(0, frames * w.cells) } } : {}),
+        box: w.box, data: w.data.subarray(0, n), clipped: w.clipped.subarray(0, Math.ceil(n / 8)),
+        ...(w.rgb ? { rgb: { r: w.rgb.r.subarray(0, n), g: w.rgb.g.subarray(0, n), b: w.rgb.b.subarray(0, n) } } : {}),
       },
     };
   }
-  return { add, finish };
+}
+
+export function createBlockStore(o: BlockStoreOptions): BlockStore {
+  return new Store(o);
 }
