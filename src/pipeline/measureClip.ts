@@ -230,7 +230,7 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
       // read the clip again with the beam found as the region (rare: a beam that moves or first lights late)
       const again = await measureClip(opened, { ...o, roi: found.geom.beam }, hooks);
       const b = found.geom.beam;
-      again.warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px, away from where the clip's first ${grid.frames} frames put it, so the clip was read a second time with that region (full resolution); check it in the report, or give --roi` });
+      again.warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px, away from where the first part of the clip put it, so the clip was read a second time with that region (full resolution); check it in the report, or give --roi` });
       return { ...again, beamAuto: true };
     }
     geom = found.geom;
