@@ -28,6 +28,7 @@ import { renderRegionOverlay, type OverlayRegion } from '../maps/renderRegionOve
 import { renderLinearGreyPng } from '../maps/renderLinearGreyPng.js';
 import { grabFramePng } from '../media/grabFrame.js';
 import { atRows } from './gridAccess.js';
+import { showFrame } from './showFrame.js';
 import type { GridStore } from './measureClip.js';
 
 export interface MapProductsInput {
@@ -141,12 +142,6 @@ function overlayRegions(i: MapProductsInput, regions: ScatterRegions | null): Ov
   return overlay;
 }
 
-/** The frame with the most modulated light shows where the beam is. */
-function showFrame(i: MapProductsInput): number {
-  let show = -1;
-  for (let f = 0; f < i.times.length; f++) if (i.used[f] && Number.isFinite(i.modulation[f]!) && (show < 0 || i.modulation[f]! > i.modulation[show]!)) show = f;
-  return show < 0 ? i.times.length >> 1 : show;
-}
 
 type Grabbed = { png: Buffer } | { error: unknown };
 
@@ -188,7 +183,8 @@ export async function mapProducts(i: MapProductsInput): Promise<MapProducts> {
     warnings.push({ code: 'reference-candidate', message: `a bright steady area at ${rectText(regions.reference.rect)} (x,y,w,h px) could serve as the reference region (--reference-roi) that corrects the exposure changes`, guideSection: 'lock-exposure' });
   }
   // ffmpeg seeks and decodes while the maps are rendered, or since the caller started it.
-  const grab = i.frame ?? startFrameGrab(i.videoPath, i.times, i.startTimeS, showFrame(i));
+  // without a frame from the caller: the most modulated frame used (no keyframe times here)
+  const grab = i.frame ?? startFrameGrab(i.videoPath, i.times, i.startTimeS, showFrame(i.modulation, Uint8Array.from(i.used, (u) => 1 - u), i.times, new Float64Array()));
   const [staticMapPng, modulatedMapPng] = await mapFigures(i, maps);
   const frameWithRegionsPng = await regionsPicture(i, maps, overlayRegions(i, regions), grab.index, await grab.grabbed, warnings);
   const files: Record<string, Uint8Array> = {

@@ -36,7 +36,7 @@ function frameAtOrBefore(times: Float64Array, t: number): number {
 }
 
 /**
- * @param intensity beam intensity of every frame (linear units)
+ * @param intensity how bright the beam is in each frame (its intensity, or the modulation term)
  * @param excluded truthy (a reason) for the frames left out of the fit
  * @param times frame presentation times, s, ascending
  * @param keyframeTimesS keyframe presentation times on the same clock, s, ascending (may be empty)
