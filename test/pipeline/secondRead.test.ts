@@ -32,9 +32,11 @@ describe('bounded store: the whole clip puts the beam outside the window', () =>
     expect(starts).toEqual(['decoding', 'decoding']);
     expect(clip.beamAuto).toBe(true);
     expect(clip.warnings.some((w) => w.code === 'auto-region' && /read a second time/.test(w.message))).toBe(true);
-    // the second read measured the found beam at full resolution: it is bright where the drive is
+    // the second read measured the found beam at full resolution: it swings with the drive (the
+    // scenario's spot has amplitude 0.6 of full scale, test-media/cfr-ramp/scenario.json; a tenth of
+    // that is the bound, far above the frame noise and far below the swing)
     let hi = -Infinity, lo = Infinity;
     for (const v of clip.beam.luma) { hi = Math.max(hi, v); lo = Math.min(lo, v); }
-    expect(hi - lo).toBeGreaterThan(0.05);
+    expect(hi - lo).toBeGreaterThan(0.06);
   }, 60_000);
 });
