@@ -7,48 +7,30 @@
  * the pixel fraction (see src/measure/blockMeter).
  *
  * Units: linear light (0..1); clipped is a fraction.
- * A bounded store (blockStore.ts) is read from its window, which keeps every frame.
+ * A bounded store (blockStore.ts) is read from the per-frame sums of the boxes it tracked.
  * @throws KerrError INTERNAL for a store without clip bits (decodePass always makes them), or a box
- *   outside a bounded store's window; the box must lie on the grid (cellBoxToRect geometry).
+ *   a bounded store did not track; the box must lie on the grid (cellBoxToRect geometry).
  * @example
  * const beam = blockSeries(pass.grid, { x0: 70, y0: 40, x1: 82, y1: 52 });
  */
 import { KerrError } from '../errors.js';
 import type { CellBox } from '../core/regions/cellGeometry.js';
 import { newSeries, type GridStore, type RegionSeries } from './decodePass.js';
-import { fullRateBlocks } from './gridAccess.js';
+import { boxSums } from './gridAccess.js';
 
 export function blockSeries(grid: GridStore, box: CellBox): RegionSeries {
-  const src = fullRateBlocks(grid, box);
-  if (!src) throw new KerrError('INTERNAL', 'the region lies outside the blocks the bounded store kept at every frame');
-  const clipBits = src.clipped;
-  if (!clipBits) throw new KerrError('INTERNAL', 'the block store has no clip bits, so a region cannot be measured from it');
-  const { frames, width, cells } = src;
-  const b = src.box;
+  const sums = boxSums(grid, box);
+  if (!sums) throw new KerrError('INTERNAL', 'the region is not one of the boxes the bounded store kept at every frame');
+  if (!sums.clippedBlocks) throw new KerrError('INTERNAL', 'the block store has no clip bits, so a region cannot be measured from it');
+  const frames = sums.luma.length;
   const out = newSeries(frames);
-  const count = (b.x1 - b.x0 + 1) * (b.y1 - b.y0 + 1);
-  const sources: Array<[Float32Array, Float64Array]> = [[src.data, out.luma]];
-  if (src.rgb) sources.push([src.rgb.r, out.r], [src.rgb.g, out.g], [src.rgb.b, out.b]);
-  else { out.r.fill(NaN); out.g.fill(NaN); out.b.fill(NaN); }
+  const { count } = sums;
   for (let f = 0; f < frames; f++) {
-    const off = f * cells;
-    for (const [data, dst] of sources) {
-      let s = 0;
-      for (let y = b.y0; y <= b.y1; y++) {
-        const row = off + y * width;
-        for (let x = b.x0; x <= b.x1; x++) s += data[row + x]!;
-      }
-      dst[f] = s / count;
-    }
-    let clipped = 0;
-    for (let y = b.y0; y <= b.y1; y++) {
-      const row = off + y * width;
-      for (let x = b.x0; x <= b.x1; x++) {
-        const bit = row + x;
-        clipped += (clipBits[bit >> 3]! >> (bit & 7)) & 1;
-      }
-    }
-    out.clipped[f] = clipped / count;
+    out.luma[f] = sums.luma[f]! / count;
+    out.clipped[f] = sums.clippedBlocks[f]! / count;
   }
+  if (sums.rgb) {
+    for (let f = 0; f < frames; f++) { out.r[f] = sums.rgb.r[f]! / count; out.g[f] = sums.rgb.g[f]! / count; out.b[f] = sums.rgb.b[f]! / count; }
+  } else { out.r.fill(NaN); out.g.fill(NaN); out.b.fill(NaN); }
   return out;
 }

@@ -6,15 +6,16 @@
  * frames come, exactly as the pass always stored them.
  *
  * Bounded, so that peak memory does not grow with clip length: once `maxRows` frames are stored,
- * `windowFor` is asked for a window of blocks (the beam found so far, grown to hold its rings and
- * the background box around it). From then on
- * - the window keeps every frame (its luminance, channels and clip bits): a region made of whole
- *   blocks inside it is read at the full frame rate (blockSeries, findSparks, the exposure series);
+ * `boxesFor` is asked for the boxes of blocks the analysis will read at every frame (the beam found
+ * so far and its rings, the spark and keep-out boxes: fullRateBoxes.ts). From then on
+ * - each of those boxes keeps, at every frame, its sum of luminance (and of R, G, B) and its count
+ *   of clipped blocks: a region made of one of them is read at the full frame rate (blockSeries,
+ *   findSparks, the exposure series) with the numbers the unbounded store gives;
  * - every frame's sum over all blocks is kept (frame means: flashes, the exposure series);
  * - the whole grid keeps every `stride`-th frame only: when the rows are full, every other row is
  *   dropped and the stride doubles (rows stay evenly spaced in time; the maps, the beam finder and
  *   the far-dark search read these rows, with `frameOf` telling which frame each one is).
- * Memory then stays near maxRows × blocks + frames × (window blocks + 1) values.
+ * Memory then stays near maxRows × blocks values plus a few numbers per frame and box.
  *
  * @example
  * const store = createBlockStore({ cells, gridWidth, gridHeight, step, capFrames: 900 });
@@ -22,7 +23,7 @@
  * const grid = store.finish();
  */
 import type { CellBox } from '../core/regions/cellGeometry.js';
-import type { GridStore } from './decodePass.js';
+import type { GridStore, TrackedBoxes } from './decodePass.js';
 
 type Rgb = { r: Float32Array; g: Float32Array; b: Float32Array };
 /** Fills one frame's blocks: luminance into `luma`, clip bits from `bitOffset` on, channels into `rgb`. */
@@ -37,11 +38,11 @@ export interface BlockStoreOptions {
   capFrames: number;
   channels?: boolean;
   /**
-   * Keep at most this many whole-grid rows, with a full-rate window from `windowFor`; a window of
+   * Keep at most this many whole-grid rows, with per-frame sums of the boxes `boxesFor` names;
    * null means "not yet" (no beam in the rows so far): the rows keep growing and it is asked again
    * at twice as many.
    */
-  bounded?: { maxRows: number; windowFor: (rows: GridStore) => CellBox | null };
+  bounded?: { maxRows: number; boxesFor: (rows: GridStore) => readonly CellBox[] | null };
 }
 
 export interface BlockStore {
@@ -59,16 +60,19 @@ function growBytes(a: Uint8Array, size: number): Uint8Array<ArrayBuffer> {
   out.set(a.subarray(0, Math.min(size, a.length)));
   return out;
 }
+function grow64(a: Float64Array, size: number): Float64Array<ArrayBuffer> {
+  const out = new Float64Array(size);
+  out.set(a.subarray(0, Math.min(size, a.length)));
+  return out;
+}
 const newRgb = (size: number): Rgb => ({ r: new Float32Array(size), g: new Float32Array(size), b: new Float32Array(size) });
 
-interface Window {
-  box: CellBox;
-  width: number;
-  cells: number;
-  data: Float32Array;
-  clipped: Uint8Array;
-  rgb?: Rgb;
-  cap: number;
+/** Per-frame sums of the tracked boxes: box k of frame f at [f·boxes + k]. */
+interface Tracked {
+  boxes: readonly CellBox[];
+  luma: Float64Array;
+  rgb: { r: Float64Array; g: Float64Array; b: Float64Array } | undefined;
+  clippedBlocks: Float64Array;
 }
 
 class Store implements BlockStore {
@@ -79,8 +83,8 @@ class Store implements BlockStore {
   private rgb: Rgb | undefined;
   private rows = 0;
   private frames = 0;
-  /** Bounded mode, once the rows fill and a window is known. */
-  private window: Window | null = null;
+  /** Bounded mode, once the rows fill and the boxes are known. */
+  private tracked: Tracked | null = null;
   private nextTry: number;
   private stride = 1;
   private frameOf: Int32Array | null = null;
@@ -108,28 +112,37 @@ class Store implements BlockStore {
     };
   }
 
-  private growWindow(w: Window, f: number): void {
-    const next = Math.ceil(Math.max(f + 1, w.cap * 1.5));
-    w.data = grow32(w.data, next * w.cells);
-    w.clipped = growBytes(w.clipped, Math.ceil((next * w.cells) / 8));
-    if (w.rgb) w.rgb = { r: grow32(w.rgb.r, next * w.cells), g: grow32(w.rgb.g, next * w.cells), b: grow32(w.rgb.b, next * w.cells) };
-    w.cap = next;
-  }
-
-  /** Copies one frame's window blocks (from a row of `src` at `srcOff`, bits from `srcBit`) into the window at frame f. */
-  private toWindow(f: number, src: Float32Array, srcRgb: Rgb | undefined, srcClip: Uint8Array, srcOff: number, srcBit: number): void {
-    const w = this.window!;
-    if (f >= w.cap) this.growWindow(w, f);
-    const gridWidth = this.o.gridWidth;
-    let k = f * w.cells;
-    for (let y = w.box.y0; y <= w.box.y1; y++) {
-      for (let x = w.box.x0; x <= w.box.x1; x++, k++) {
-        const c = y * gridWidth + x;
-        w.data[k] = src[srcOff + c]!;
-        if (w.rgb && srcRgb) { w.rgb.r[k] = srcRgb.r[srcOff + c]!; w.rgb.g[k] = srcRgb.g[srcOff + c]!; w.rgb.b[k] = srcRgb.b[srcOff + c]!; }
-        const bit = srcBit + c;
-        if ((srcClip[bit >> 3]! >> (bit & 7)) & 1) w.clipped[k >> 3] |= 1 << (k & 7);
+  /**
+   * The tracked boxes' sums of frame f, from a row of `src` at `srcOff` (clip bits from `srcBit`),
+   * summed rows then columns as blockSeries sums an unbounded store (the same numbers).
+   */
+  private track(f: number, src: Float32Array, srcRgb: Rgb | undefined, srcClip: Uint8Array, srcOff: number, srcBit: number): void {
+    const t = this.tracked!;
+    const gw = this.o.gridWidth;
+    const nb = t.boxes.length;
+    for (let k = 0; k < nb; k++) {
+      const b = t.boxes[k]!;
+      let s = 0, r = 0, g = 0, bl = 0, clip = 0;
+      for (let y = b.y0; y <= b.y1; y++) {
+        const row = srcOff + y * gw;
+        for (let x = b.x0; x <= b.x1; x++) s += src[row + x]!;
       }
+      if (srcRgb) {
+        for (let y = b.y0; y <= b.y1; y++) {
+          const row = srcOff + y * gw;
+          for (let x = b.x0; x <= b.x1; x++) { r += srcRgb.r[row + x]!; g += srcRgb.g[row + x]!; bl += srcRgb.b[row + x]!; }
+        }
+      }
+      for (let y = b.y0; y <= b.y1; y++) {
+        for (let x = b.x0; x <= b.x1; x++) {
+          const bit = srcBit + y * gw + x;
+          clip += (srcClip[bit >> 3]! >> (bit & 7)) & 1;
+        }
+      }
+      const i = f * nb + k;
+      t.luma[i] = s;
+      t.clippedBlocks[i] = clip;
+      if (t.rgb) { t.rgb.r[i] = r; t.rgb.g[i] = g; t.rgb.b[i] = bl; }
     }
   }
 
@@ -139,27 +152,26 @@ class Store implements BlockStore {
     return s;
   }
 
-  /** The rows are full: take the window, keep its blocks and the frame sums of the rows so far (false: no window yet). */
+  /** The rows are full: take the boxes, sum them and the frames over the rows so far (false: no boxes yet). */
   private startBounding(): boolean {
-    const box = this.o.bounded!.windowFor(this.view());
-    if (!box) return false;
+    const boxes = this.o.bounded!.boxesFor(this.view());
+    if (!boxes) return false;
     const { cells, cap } = this;
-    const width = box.x1 - box.x0 + 1;
-    const wcells = width * (box.y1 - box.y0 + 1);
-    this.window = { box, width, cells: wcells, data: new Float32Array(cap * wcells), clipped: new Uint8Array(Math.ceil((cap * wcells) / 8)), ...(this.rgb ? { rgb: newRgb(cap * wcells) } : {}), cap };
+    const n = cap * boxes.length;
+    this.tracked = { boxes: boxes.map((b) => ({ ...b })), luma: new Float64Array(n), clippedBlocks: new Float64Array(n), rgb: this.rgb ? { r: new Float64Array(n), g: new Float64Array(n), b: new Float64Array(n) } : undefined };
     this.frameOf = Int32Array.from({ length: this.rows }, (_, r) => r);
     this.frameSum = new Float64Array(cap);
     for (let r = 0; r < this.rows; r++) {
-      this.toWindow(r, this.data, this.rgb, this.clipped, r * cells, r * cells);
+      this.track(r, this.data, this.rgb, this.clipped, r * cells, r * cells);
       this.frameSum[r] = this.sumRow(this.data, r * cells);
     }
     const maxRows = this.o.bounded!.maxRows;
     while (this.rows > maxRows) this.compact();
     if (this.data.length > maxRows * cells) {
-      const n = maxRows * cells;
-      this.data = this.data.slice(0, n);
-      this.clipped = this.clipped.slice(0, Math.ceil(n / 8));
-      if (this.rgb) this.rgb = { r: this.rgb.r.slice(0, n), g: this.rgb.g.slice(0, n), b: this.rgb.b.slice(0, n) };
+      const m = maxRows * cells;
+      this.data = this.data.slice(0, m);
+      this.clipped = this.clipped.slice(0, Math.ceil(m / 8));
+      if (this.rgb) this.rgb = { r: this.rgb.r.slice(0, m), g: this.rgb.g.slice(0, m), b: this.rgb.b.slice(0, m) };
     }
     return true;
   }
@@ -189,10 +201,17 @@ class Store implements BlockStore {
   private ensureCap(f: number): void {
     if (f < this.cap) return;
     this.cap = Math.ceil(Math.max(f + 1, this.cap * 1.5));
-    if (this.frameSum) { const s2 = new Float64Array(this.cap); s2.set(this.frameSum); this.frameSum = s2; }
+    if (this.frameSum) this.frameSum = grow64(this.frameSum, this.cap);
+    const t = this.tracked;
+    if (t) {
+      const n = this.cap * t.boxes.length;
+      t.luma = grow64(t.luma, n);
+      t.clippedBlocks = grow64(t.clippedBlocks, n);
+      if (t.rgb) t.rgb = { r: grow64(t.rgb.r, n), g: grow64(t.rgb.g, n), b: grow64(t.rgb.b, n) };
+    }
   }
 
-  /** Room for one more row before the window is known (grows by half; rows are capped only after). */
+  /** Room for one more row before the boxes are known (grows by half; rows are capped only after). */
   private ensureRowRoom(): void {
     const { cells } = this;
     if ((this.rows + 1) * cells <= this.data.length) return;
@@ -206,7 +225,7 @@ class Store implements BlockStore {
     this.frames = Math.max(this.frames, f + 1);
     this.ensureCap(f);
     const { cells } = this;
-    if (!this.window) {
+    if (!this.tracked) {
       // every frame its own row, measured in place (the unbounded store, bit for bit)
       this.ensureRowRoom();
       const lo = this.rows * cells, hi = lo + cells;
@@ -219,7 +238,7 @@ class Store implements BlockStore {
     const sc = this.scratch;
     sc.clipped.fill(0);
     measure(sc.luma, sc.clipped, 0, sc.rgb);
-    this.toWindow(f, sc.luma, sc.rgb, sc.clipped, 0, 0);
+    this.track(f, sc.luma, sc.rgb, sc.clipped, 0, 0);
     this.frameSum![f] = this.sumRow(sc.luma, 0);
     if (f % this.stride !== 0) return;
     if (this.rows >= this.o.bounded!.maxRows) this.compact();
@@ -241,16 +260,14 @@ class Store implements BlockStore {
 
   finish(): GridStore {
     const grid = this.view();
-    const w = this.window;
-    if (!w) return grid;
-    const n = this.frames * w.cells;
-    return {
-      ...grid, totalFrames: this.frames, frameOf: this.frameOf!.slice(0, this.rows), frameSum: this.frameSum!.slice(0, this.frames),
-      window: {
-        box: w.box, data: w.data.subarray(0, n), clipped: w.clipped.subarray(0, Math.ceil(n / 8)),
-        ...(w.rgb ? { rgb: { r: w.rgb.r.subarray(0, n), g: w.rgb.g.subarray(0, n), b: w.rgb.b.subarray(0, n) } } : {}),
-      },
+    const t = this.tracked;
+    if (!t) return grid;
+    const n = this.frames * t.boxes.length;
+    const tracked: TrackedBoxes = {
+      boxes: t.boxes, luma: t.luma.slice(0, n), clippedBlocks: t.clippedBlocks.slice(0, n),
+      ...(t.rgb ? { rgb: { r: t.rgb.r.slice(0, n), g: t.rgb.g.slice(0, n), b: t.rgb.b.slice(0, n) } } : {}),
     };
+    return { ...grid, totalFrames: this.frames, frameOf: this.frameOf!.slice(0, this.rows), frameSum: this.frameSum!.slice(0, this.frames), tracked };
   }
 }
 

@@ -13,8 +13,8 @@
  *   whole blocks is then measured from the store without a second pass (blockSeries.ts).
  * - Stream timing remarks (`notes`) are returned for the run's warnings.
  * Memory: one row per frame is frames × blocks × 4 bytes (×4 with channels) plus frames × blocks / 8
- * bytes of clip bits; with `bounded` the store keeps at most maxRows rows and a full-rate window
- * (blockStore.ts), so a long clip costs little more than a short one.
+ * bytes of clip bits; with `bounded` the store keeps at most maxRows rows and per-frame sums of
+ * a few boxes (blockStore.ts), so a long clip costs little more than a short one.
  * @throws the stream's errors (TRUNCATED_MEDIA, FFMPEG_FAILED, FFMPEG_MISSING, BAD_REGION).
  * @example
  * const p = await decodePass(probe, decoding, { regions: [roi], overviewStep: 12 });
@@ -45,13 +45,25 @@ export interface GridStore {
   /**
    * A bounded store (blockStore.ts) keeps whole-grid rows for some frames only: `frameOf[row]` is
    * the clip frame of each row, `totalFrames` the clip's frames, `frameSum` every frame's sum over
-   * all blocks, and `window` every frame of a box of blocks (data laid out frame-major over the
-   * box's own width). Absent: one row per frame.
+   * all blocks, and `tracked` every frame's sums over the boxes read at full rate. Absent: one row
+   * per frame.
    */
   frameOf?: Int32Array;
   totalFrames?: number;
   frameSum?: Float64Array;
-  window?: { box: CellBox; data: Float32Array; clipped: Uint8Array; rgb?: { r: Float32Array; g: Float32Array; b: Float32Array } };
+  tracked?: TrackedBoxes;
+}
+
+/**
+ * Per-frame sums over boxes of blocks (a bounded store's full-rate part): box k of frame f at
+ * index f·boxes.length + k; luminance and channel sums of the blocks' linear values, and the
+ * count of clipped blocks.
+ */
+export interface TrackedBoxes {
+  boxes: readonly CellBox[];
+  luma: Float64Array;
+  rgb?: { r: Float64Array; g: Float64Array; b: Float64Array };
+  clippedBlocks: Float64Array;
 }
 
 /** Per-frame means of one region: linear luminance, the three channels, and the clipped fraction. */
@@ -69,8 +81,8 @@ export interface DecodePassOptions {
   overviewStep?: number;
   /** Store R, G, B per block too (4× the store). */
   channels?: boolean;
-  /** Bound the store (blockStore.ts): at most maxRows whole-grid rows, every frame of a window. */
-  bounded?: { maxRows: number; windowFor: (rows: GridStore) => CellBox | null };
+  /** Bound the store (blockStore.ts): at most maxRows whole-grid rows, every frame's sums of the boxes named. */
+  bounded?: { maxRows: number; boxesFor: (rows: GridStore) => readonly CellBox[] | null };
   /** Row stride of the outer pieces of nested regions (default 1). */
   ringRowStride?: number;
   maxFrames?: number;

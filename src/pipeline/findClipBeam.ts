@@ -7,7 +7,8 @@
  * Pure.
  */
 import { findBeam } from '../core/regions/findBeam.js';
-import { cellBoxToRect, growCellBox, type CellBox } from '../core/regions/cellGeometry.js';
+import { cellBoxToRect, type CellBox } from '../core/regions/cellGeometry.js';
+import { beamSurroundBoxes, type GridDims } from './fullRateBoxes.js';
 import type { SurroundGeometry } from '../core/regions/localSurround.js';
 import { detectFlashes } from '../core/events/detectFlashes.js';
 import { atRows, frameMeansOf } from './gridAccess.js';
@@ -24,10 +25,12 @@ export function findClipBeam(grid: GridStore): ClipBeam {
   const flashes = detectFlashes(frameMeansOf(grid));
   const usable = atRows(grid, Uint8Array.from(flashes.flags, (x) => 1 - x));
   const found = findBeam({ grid: grid.data, frames: grid.frames, gridWidth: grid.gridWidth, gridHeight: grid.gridHeight, usable });
-  const grow = (c: CellBox, by: number): CellBox => growCellBox(c, by, grid.gridWidth, grid.gridHeight);
-  const size = Math.max(found.beam.x1 - found.beam.x0 + 1, found.beam.y1 - found.beam.y0 + 1);
-  const ring = Math.max(2, Math.round(size / 3));
-  const boxes = [found.beam, grow(found.beam, 1), grow(found.beam, 1 + ring), grow(found.beam, 1 + 2 * ring)] as const;
+  return clipBeamAt(found.beam, grid);
+}
+
+/** A beam box with its rings as block boxes and pixel rectangles. */
+export function clipBeamAt(beamBox: CellBox, grid: GridDims): ClipBeam {
+  const boxes = beamSurroundBoxes(beamBox, grid.gridWidth, grid.gridHeight);
   const [beam, a0, a1, b1] = boxes.map((b) => cellBoxToRect(b, grid.step)) as [ReturnType<typeof cellBoxToRect>, ReturnType<typeof cellBoxToRect>, ReturnType<typeof cellBoxToRect>, ReturnType<typeof cellBoxToRect>];
   return { boxes, geom: { beam, a0, a1, b1 } };
 }

@@ -7,20 +7,18 @@
  */
 import { detectFlashes, type FlashDetection } from '../core/events/detectFlashes.js';
 import { boxSumSeries, frameMeansOf } from './gridAccess.js';
+import { sparkBox } from './fullRateBoxes.js';
 import type { ClipMeasurement } from './measureClip.js';
 
 export function findSparks(clip: Pick<ClipMeasurement, 'grid' | 'geom' | 'beamRect' | 'nFrames'>): FlashDetection {
   const { grid } = clip;
   const cells = grid.gridWidth * grid.gridHeight;
   const frameMean = frameMeansOf(grid);
-  const outer = clip.geom ? clip.geom.b1 : clip.beamRect;
-  const cx0 = Math.floor(outer.x / grid.step), cy0 = Math.floor(outer.y / grid.step);
-  const cx1 = Math.min(grid.gridWidth - 1, Math.ceil((outer.x + outer.w) / grid.step) - 1);
-  const cy1 = Math.min(grid.gridHeight - 1, Math.ceil((outer.y + outer.h) / grid.step) - 1);
-  const inside = Math.max(0, cx1 - cx0 + 1) * Math.max(0, cy1 - cy0 + 1);
+  const box = sparkBox(grid, clip.geom ? clip.geom.b1 : clip.beamRect);
+  const inside = Math.max(0, box.x1 - box.x0 + 1) * Math.max(0, box.y1 - box.y0 + 1);
   if (cells - inside < 16) return detectFlashes(frameMean);
-  const boxSum = boxSumSeries(grid, { x0: cx0, y0: cy0, x1: cx1, y1: cy1 });
-  if (!boxSum) return detectFlashes(frameMean); // outside a bounded store's window: the whole frame
+  const boxSum = boxSumSeries(grid, box);
+  if (!boxSum) return detectFlashes(frameMean); // a box a bounded store did not track (not made by measureClip): the whole frame
   const outside = new Float64Array(frameMean.length);
   for (let f = 0; f < outside.length; f++) outside[f] = (frameMean[f]! * cells - boxSum[f]!) / (cells - inside);
   return detectFlashes(outside);

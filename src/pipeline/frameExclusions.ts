@@ -30,13 +30,14 @@ import { detectParticleEvents } from '../core/scatter/detectParticleEvents.js';
 import { exposureDrift } from '../core/scatter/exposureDrift.js';
 import { detectExposureJumps } from '../core/scatter/detectExposureJumps.js';
 import { outsideBoxSeries } from '../core/scatter/boxSeries.js';
-import { rectToCellBox, growCellBox, cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
+import { cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
 import { spikeFreeTrend } from '../core/signal/spikeFreeTrend.js';
 import { median } from '../core/fit/robustScale.js';
 import { quantity, type Quantity } from '../quantity.js';
 import type { RunEvent, RunWarning } from '../result/schema.js';
 import type { FlashDetection } from '../core/events/detectFlashes.js';
 import { boxSumSeries, frameMeansOf } from './gridAccess.js';
+import { keepOutBox } from './fullRateBoxes.js';
 import type { ClipMeasurement } from './measureClip.js';
 import type { CorrectedSeries } from './correctedSeries.js';
 
@@ -164,9 +165,9 @@ export function particleExclusions(input: ParticleInput): ParticleExclusions {
   return { excluded, events, particleRate };
 }
 
-/** Mean outside a box of blocks at every frame (a bounded store: from its window; outside it, the whole frame). */
+/** Mean outside a box of blocks at every frame (a bounded store: from its tracked sums; a box it did not track, the whole frame). */
 function outsideBox(grid: PreSyncInput['clip']['grid'], frameMean: Float64Array, box: CellBox): Float64Array {
-  if (!grid.window) return outsideBoxSeries(grid.data, frameMean, grid.gridWidth, grid.gridHeight, box);
+  if (!grid.tracked) return outsideBoxSeries(grid.data, frameMean, grid.gridWidth, grid.gridHeight, box);
   const inside = boxSumSeries(grid, box);
   if (!inside) return frameMean;
   const cells = grid.gridWidth * grid.gridHeight, area = cellBoxArea(box);
@@ -176,11 +177,9 @@ function outsideBox(grid: PreSyncInput['clip']['grid'], frameMean: Float64Array,
 /** The background outside the beam (grown by half its width), per frame, from the grid. */
 function backgroundLevel(clip: PreSyncInput['clip'], gain: Float64Array | null): Float64Array {
   const { grid } = clip;
-  const gw = grid.gridWidth, gh = grid.gridHeight, cells = gw * gh;
+  const cells = grid.gridWidth * grid.gridHeight;
   const frameMean = frameMeansOf(grid);
-  const beamBox = rectToCellBox(clip.beamRect, grid.step, gw, gh);
-  let keepOut: CellBox | null = beamBox ? growCellBox(beamBox, Math.max(2, Math.ceil((beamBox.x1 - beamBox.x0 + 1) / 2)), gw, gh) : null;
-  if (keepOut && cellBoxArea(keepOut) >= cells) keepOut = beamBox;
+  const keepOut = keepOutBox(grid, clip.beamRect);
   const raw = keepOut && cellBoxArea(keepOut) < cells ? outsideBox(grid, frameMean, keepOut) : frameMean;
   return gain ? raw.map((v, f) => (gain[f]! > 0 ? v / gain[f]! : NaN)) : raw;
 }

@@ -1,13 +1,14 @@
 /**
  * Reading a block store whether it keeps one row per frame or is bounded (blockStore.ts): the
- * clip's frame count, every frame's mean over all blocks, the full-rate blocks of a box (from the
- * rows, or from the bounded store's window when the box lies inside it), and per-frame values
- * picked for the rows a bounded store kept. Pure.
- * @example const means = frameMeansOf(grid); const src = fullRateBlocks(grid, box) // null: outside the window
+ * clip's frame count, every frame's mean over all blocks, the sums over a box of blocks at every
+ * frame (from the rows, or from the bounded store's tracked boxes), and per-frame values picked
+ * for the rows a bounded store kept. Pure.
+ * @example const means = frameMeansOf(grid); const sums = boxSums(grid, box) // null: a box the bounded store did not track
  */
 import { frameMeans } from '../core/events/frameMeans.js';
-import type { CellBox } from '../core/regions/cellGeometry.js';
+import { cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
 import type { GridStore } from './decodePass.js';
+import { sameBox } from './fullRateBoxes.js';
 
 /** Frames of the clip (rows of an unbounded store). */
 export function clipFrames(grid: GridStore): number {
@@ -21,45 +22,77 @@ export function frameMeansOf(grid: GridStore): Float64Array {
   return frameMeans(grid.data, grid.frames, cells);
 }
 
-/** Full-rate blocks of a box: a frame-major store `width` blocks wide and the box in its coordinates. */
-export interface FullRateBlocks {
-  data: Float32Array;
-  clipped: Uint8Array | undefined;
-  rgb: GridStore['rgb'];
-  width: number;
-  cells: number;
-  frames: number;
-  box: CellBox;
+/** A box's per-frame sums: luminance, channels (when the store has them) and clipped blocks; `count` blocks. */
+export interface BoxSums {
+  luma: Float64Array;
+  rgb: { r: Float64Array; g: Float64Array; b: Float64Array } | undefined;
+  /** Undefined when the store has no clip bits. */
+  clippedBlocks: Float64Array | undefined;
+  count: number;
 }
 
-/** The box's blocks at every frame, or null when a bounded store's window does not hold the box. */
-export function fullRateBlocks(grid: GridStore, box: CellBox): FullRateBlocks | null {
-  const frames = clipFrames(grid);
-  const w = grid.window;
-  if (!w) return { data: grid.data, clipped: grid.clipped, rgb: grid.rgb, width: grid.gridWidth, cells: grid.gridWidth * grid.gridHeight, frames, box };
-  if (box.x0 < w.box.x0 || box.y0 < w.box.y0 || box.x1 > w.box.x1 || box.y1 > w.box.y1) return null;
-  const width = w.box.x1 - w.box.x0 + 1;
-  return {
-    data: w.data, clipped: w.clipped, rgb: w.rgb, width, cells: width * (w.box.y1 - w.box.y0 + 1), frames,
-    box: { x0: box.x0 - w.box.x0, y0: box.y0 - w.box.y0, x1: box.x1 - w.box.x0, y1: box.y1 - w.box.y0 },
-  };
-}
-
-/** Sum over a box of blocks at every frame (rows, then columns), or null when a bounded store's window does not hold it. */
-export function boxSumSeries(grid: GridStore, box: CellBox): Float64Array | null {
-  const src = fullRateBlocks(grid, box);
-  if (!src) return null;
-  const out = new Float64Array(src.frames);
-  const b = src.box;
-  for (let f = 0; f < src.frames; f++) {
+/** Σ over the box (rows, then columns) of one frame-major store, at every frame. */
+function sumBox(data: Float32Array, frames: number, cells: number, width: number, b: CellBox): Float64Array {
+  const out = new Float64Array(frames);
+  for (let f = 0; f < frames; f++) {
     let s = 0;
     for (let y = b.y0; y <= b.y1; y++) {
-      const row = f * src.cells + y * src.width;
-      for (let x = b.x0; x <= b.x1; x++) s += src.data[row + x]!;
+      const row = f * cells + y * width;
+      for (let x = b.x0; x <= b.x1; x++) s += data[row + x]!;
     }
     out[f] = s;
   }
   return out;
+}
+
+function countClipped(bits: Uint8Array, frames: number, cells: number, width: number, b: CellBox): Float64Array {
+  const out = new Float64Array(frames);
+  for (let f = 0; f < frames; f++) {
+    let n = 0;
+    for (let y = b.y0; y <= b.y1; y++) {
+      for (let x = b.x0; x <= b.x1; x++) {
+        const bit = f * cells + y * width + x;
+        n += (bits[bit >> 3]! >> (bit & 7)) & 1;
+      }
+    }
+    out[f] = n;
+  }
+  return out;
+}
+
+/** Column k of a frame-major table of `nb` columns. */
+function column(table: Float64Array, k: number, nb: number, frames: number): Float64Array {
+  const out = new Float64Array(frames);
+  for (let f = 0; f < frames; f++) out[f] = table[f * nb + k]!;
+  return out;
+}
+
+/**
+ * The box's sums at every frame, or null when a bounded store did not track this box (it keeps
+ * only the boxes fullRateBoxes names for its beam).
+ */
+export function boxSums(grid: GridStore, box: CellBox): BoxSums | null {
+  const count = cellBoxArea(box);
+  const t = grid.tracked;
+  if (!t) {
+    const { frames, gridWidth: w } = grid;
+    const cells = w * grid.gridHeight;
+    const rgb = grid.rgb ? { r: sumBox(grid.rgb.r, frames, cells, w, box), g: sumBox(grid.rgb.g, frames, cells, w, box), b: sumBox(grid.rgb.b, frames, cells, w, box) } : undefined;
+    return { luma: sumBox(grid.data, frames, cells, w, box), rgb, clippedBlocks: grid.clipped ? countClipped(grid.clipped, frames, cells, w, box) : undefined, count };
+  }
+  const k = t.boxes.findIndex((b) => sameBox(b, box));
+  if (k < 0) return null;
+  const nb = t.boxes.length, frames = clipFrames(grid);
+  const rgb = t.rgb ? { r: column(t.rgb.r, k, nb, frames), g: column(t.rgb.g, k, nb, frames), b: column(t.rgb.b, k, nb, frames) } : undefined;
+  return { luma: column(t.luma, k, nb, frames), rgb, clippedBlocks: column(t.clippedBlocks, k, nb, frames), count };
+}
+
+/** Sum of luminance over a box of blocks at every frame, or null for a box a bounded store did not track. */
+export function boxSumSeries(grid: GridStore, box: CellBox): Float64Array | null {
+  const t = grid.tracked;
+  if (!t) return sumBox(grid.data, grid.frames, grid.gridWidth * grid.gridHeight, grid.gridWidth, box);
+  const k = t.boxes.findIndex((b) => sameBox(b, box));
+  return k < 0 ? null : column(t.luma, k, t.boxes.length, clipFrames(grid));
 }
 
 /** A per-frame series picked at the frames the store's rows hold (the series itself when every frame has a row). */

@@ -20,8 +20,9 @@ import { readCameraProfile, type CameraProfile } from '../io/cameraProfile.js';
 import { decodePass, type GridStore, type RegionSeries } from './decodePass.js';
 import { blockSeries } from './blockSeries.js';
 import { validateRect } from '../measure/rect.js';
-import { growCellBox, rectToCellBox, type CellBox } from '../core/regions/cellGeometry.js';
-import { findClipBeam } from './findClipBeam.js';
+import type { CellBox } from '../core/regions/cellGeometry.js';
+import { findClipBeam, type ClipBeam } from './findClipBeam.js';
+import { fullRateBoxes } from './fullRateBoxes.js';
 import { measureOpenClip } from './measureOpenClip.js';
 import { surroundWeights, type SurroundGeometry } from '../core/regions/localSurround.js';
 import { surroundRings } from '../core/regions/surroundRings.js';
@@ -94,27 +95,33 @@ export function chooseGridStep(info: VideoInfo): number {
 /**
  * Values the whole-grid rows of the block store may hold (our choice): 16 M, about what a 30-s
  * 1080p clip at 160 × 90 blocks needs (13 M), so clips up to about that length keep one row per
- * frame and longer ones a bounded store (blockStore.ts) whose memory stays near this size.
+ * frame. A clip the probe says is longer gets a bounded store (blockStore.ts) from its first frame,
+ * with rows for `BOUNDED_ROW_VALUES` values: half of that, so that its peak memory (rows plus a few
+ * numbers per frame) stays at or below a 30-s clip's.
  */
 export const STORE_ROW_VALUES = 16e6;
+export const BOUNDED_ROW_VALUES = 8e6;
 
-/** Whole-grid rows the store keeps for a grid of `cells` blocks and `arrays` arrays per block. */
-export function storeRows(cells: number, arrays: number): number {
-  return Math.max(64, Math.floor(STORE_ROW_VALUES / (cells * arrays)));
+/**
+ * Whole-grid rows the store keeps for a grid of `cells` blocks and `arrays` arrays per block, for a
+ * clip of `expectedFrames` frames (a clip longer than its probe said is bounded at the larger cap).
+ */
+export function storeRows(cells: number, arrays: number, expectedFrames = 0): number {
+  const perRow = cells * arrays;
+  const budget = expectedFrames * perRow > STORE_ROW_VALUES ? BOUNDED_ROW_VALUES : STORE_ROW_VALUES;
+  return Math.max(64, Math.floor(budget / perRow));
 }
 
 /**
- * The blocks a bounded store keeps at every frame around a beam box: grown by the beam's own size
- * plus 4 blocks each side, which holds the surround rings (findClipBeam: 1 + 2·⌈size/3⌉ blocks out),
- * the background's keep-out box (half the beam's width) and a provisional beam's drift.
+ * A provisional beam (found on the first rows of a bounded store) stands for the clip's beam when
+ * each edge of the beam found over the whole clip lies within this many blocks of it: a beam's
+ * edge moves by a block with the frames the search sees (measured on the outside bench clips),
+ * and both boxes then measure the same spot. Farther, the clip is read again (measureClip).
  */
-export function windowAround(beam: CellBox, gridWidth: number, gridHeight: number): CellBox {
-  const size = Math.max(beam.x1 - beam.x0 + 1, beam.y1 - beam.y0 + 1);
-  return growCellBox(beam, size + 4, gridWidth, gridHeight);
-}
+export const PROVISIONAL_EDGE_BLOCKS = 1;
 
-function boxInside(inner: CellBox, outer: CellBox): boolean {
-  return inner.x0 >= outer.x0 && inner.y0 >= outer.y0 && inner.x1 <= outer.x1 && inner.y1 <= outer.y1;
+function edgesWithin(a: CellBox, b: CellBox, blocks: number): boolean {
+  return Math.abs(a.x0 - b.x0) <= blocks && Math.abs(a.y0 - b.y0) <= blocks && Math.abs(a.x1 - b.x1) <= blocks && Math.abs(a.y1 - b.y1) <= blocks;
 }
 
 function backgroundOf(regions: RegionSeries[], weights: readonly number[] | null, nFrames: number): BackgroundSeries {
@@ -196,20 +203,23 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   const channels = o.channels === 'rgb' && !o.roi;
   const step = chooseGridStep(info);
   const gw = Math.floor(info.width / step), gh = Math.floor(info.height / step);
-  // A given beam fixes the window at once; a beam to be found, the one found on the rows so far.
-  const roiBox = o.roi ? rectToCellBox(o.roi, step, gw, gh) : null;
-  const windowFor = (rows: GridStore): CellBox | null => {
-    if (roiBox) return windowAround(roiBox, gw, gh);
+  // A given beam fixes the full-rate boxes at once; a beam to be found, the one found on the rows so far.
+  const dims = { gridWidth: gw, gridHeight: gh, step };
+  let provisional: ClipBeam | null = null;
+  const boxesFor = (rows: GridStore): CellBox[] | null => {
+    if (o.roi) return fullRateBoxes(dims, o.roi, geom?.b1 ?? o.roi);
     try {
-      return windowAround(findClipBeam(rows).boxes[0], gw, gh);
+      provisional = findClipBeam(rows);
     } catch (e) {
       if (e instanceof KerrError && e.code === 'BAD_REGION') return null; // no beam in the frames so far: ask again later
       throw e;
     }
+    return fullRateBoxes(dims, provisional.geom.beam, provisional.geom.b1, provisional.boxes);
   };
+  const arrays = channels ? 4 : 1;
   const pass = await decodePass(probe, decoding, {
     regions: plan.regions, overviewStep: step, ringRowStride: 2, channels,
-    bounded: { maxRows: o.maxGridRows ?? storeRows(gw * gh, channels ? 4 : 1), windowFor },
+    bounded: { maxRows: o.maxGridRows ?? storeRows(gw * gh, arrays, probe.expectedFrames), boxesFor },
     ...(hooks.onProgress ? { onProgress: (d: number, t: number) => hooks.onProgress!('decoding', d, t) } : {}),
   });
   for (const note of pass.notes) warnings.push({ code: 'probe', message: note });
@@ -223,15 +233,19 @@ export async function measureClip(opened: OpenedClip, o: ClipOptions, hooks: Cli
   if (o.roi) {
     beamAndRings = geom ? [pass.regions[idx.beam!]!, pass.regions[idx.a0!]!, pass.regions[idx.a1!]!, pass.regions[idx.b1!]!] : [pass.regions[idx.beam!]!];
   } else {
-    const found = findClipBeam(grid);
-    // the outer ring holds the background's keep-out box too (1 + 2·⌈size/3⌉ ≥ ⌈size/2⌉ blocks out)
-    if (grid.window && !boxInside(found.boxes[3], grid.window.box)) {
-      // the beam over the whole clip is not where the first part of it put the kept blocks:
-      // read the clip again with the beam found as the region (rare: a beam that moves or first lights late)
-      const again = await measureClip(opened, { ...o, roi: found.geom.beam }, hooks);
-      const b = found.geom.beam;
-      again.warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px, away from where the first part of the clip put it, so the clip was read a second time with that region (full resolution); check it in the report, or give --roi` });
-      return { ...again, beamAuto: true };
+    let found = findClipBeam(grid);
+    if (grid.tracked) {
+      // a bounded store kept every frame of the provisional beam's boxes only
+      const first = provisional as ClipBeam | null;
+      if (!first || !edgesWithin(first.boxes[0], found.boxes[0], PROVISIONAL_EDGE_BLOCKS)) {
+        // the beam over the whole clip is not where the first part of it put the kept boxes:
+        // read the clip again with the beam found as the region (rare: a beam that moves or first lights late)
+        const again = await measureClip(opened, { ...o, roi: found.geom.beam }, hooks);
+        const b = found.geom.beam;
+        again.warnings.push({ code: 'auto-region', message: `the beam region was found automatically at x=${b.x}, y=${b.y}, ${b.w}×${b.h} px, away from where the first part of the clip put it, so the clip was read a second time with that region (full resolution); check it in the report, or give --roi` });
+        return { ...again, beamAuto: true };
+      }
+      found = first;
     }
     geom = found.geom;
     blocks = { boxes: found.boxes, step: grid.step };
