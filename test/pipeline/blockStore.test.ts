@@ -119,3 +119,21 @@ describe('analyze with a bounded block store (as a long clip gets)', () => {
     expect(Math.abs(bounded.halfWaveVoltage.value - full.halfWaveVoltage.value)).toBeLessThan(0.1 * full.halfWaveVoltage.stdErr!);
   }, 60_000);
 });
+
+describe('a bounded store tracks every box the analysis reads at full rate', () => {
+  it('with --roi and with a found beam: the spark and keep-out boxes (and the beam and rings) are tracked, so nothing falls back to whole-frame means', async () => {
+    const { measureClip } = await import('../../src/pipeline/measureClip.js');
+    const { sparkBox, keepOutBox } = await import('../../src/pipeline/fullRateBoxes.js');
+    const { readFileSync } = await import('node:fs');
+    const truth = JSON.parse(readFileSync(testMediaFile('cfr-ramp', 'run', 'truth.json'), 'utf8')) as { roi: number[] };
+    const [x, y, w, h] = truth.roi as [number, number, number, number];
+    for (const roi of [{ x, y, w, h }, undefined]) {
+      const o = { videoPath: testMediaFile('cfr-ramp', 'run', 'clip.mp4'), maxGridRows: 40, ...(roi ? { roi } : {}) };
+      const clip = await measureClip(await openClip(o), o);
+      const g = clip.grid;
+      expect(g.tracked).toBeDefined();
+      expect(boxSumSeries(g, sparkBox(g, clip.geom ? clip.geom.b1 : clip.beamRect))).not.toBeNull();
+      expect(boxSumSeries(g, keepOutBox(g, clip.beamRect)!)).not.toBeNull();
+    }
+  }, 60_000);
+});
