@@ -20,7 +20,7 @@ const KNOWN_KEYS: Record<keyof RunResult, true> = {
   cell: true, camera: true, regions: true, kerrConstant: true, halfWaveVoltage: true, syncOffset: true, floorFraction: true,
   contrastRatio: true, quarterWaveVoltage: true, identifiable: true, identifiability: true, model: true, fit: true,
   linearised: true, sync: true, frames: true, events: true, log: true, scatter: true, hysteresis: true, conductivity: true,
-  channels: true, cameraResponse: true, warnings: true, files: true, uncertainty: true, validity: true,
+  channels: true, cameraResponse: true, floorFractionTerms: true, warnings: true, files: true, uncertainty: true, validity: true,
 };
 
 const HEADLINE = ['kerrConstant', 'halfWaveVoltage', 'syncOffset', 'floorFraction', 'contrastRatio', 'quarterWaveVoltage'] as const;

@@ -37,6 +37,7 @@ export function cameraResponseRecord(input: CameraResponseInput): { record: Came
       relativeShiftB: check.relativeShiftB,
       standardUncertainty: check.standardUncertainty,
       departs: check.departs,
+      gammaUncertainty: check.gammaUncertainty,
     },
   };
   const warnings: RunWarning[] = [];

@@ -5,10 +5,12 @@
  * colour channel (each fitted with its own amplitude near the luminance fit's V_π).
  *
  * Floor fraction and contrast ratio come from the core formulas shared with photo runs
- * (src/core/figures: first-order propagation, correlations ignored).
+ * (src/core/figures: first-order propagation, correlations ignored); the floor fraction's
+ * uncertainty adds the camera-response, surround and compression terms to the fit's
+ * (floorFractionUncertainty).
  */
 import { quantity, type Quantity } from '../quantity.js';
-import { floorFraction } from '../core/figures/floorFraction.js';
+import { floorFraction, floorFractionUncertainty, type FloorFractionTerms } from '../core/figures/floorFraction.js';
 import { contrastRatio } from '../core/figures/contrastRatio.js';
 import { fitKerrCurve, type KerrCurveFit } from '../core/fit/fitKerrCurve.js';
 import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
@@ -22,7 +24,9 @@ import type { FittedRun } from './fitRun.js';
 import type { RunCell } from './runCell.js';
 
 export interface DerivedFigures {
+  /** With its combined uncertainty (floorFractionTerms). */
   floorFraction: Quantity;
+  floorFractionTerms?: FloorFractionTerms;
   contrastRatio: Quantity;
   linearised: RunResult['linearised'];
   cameraResponse: NonNullable<RunResult['cameraResponse']>;
@@ -39,6 +43,8 @@ export interface DerivedInput {
   transferFromOption: boolean;
   cameraProfile?: { path: string; profile: CameraProfile };
   channelIntensity?: { r: Float64Array; g: Float64Array; b: Float64Array };
+  /** The clip's bits per pixel per frame (the floor fraction's compression term). */
+  bitsPerPixel?: number;
 }
 
 /** Floor fraction and contrast ratio by the core formulas photo runs use too (src/core/figures). */
@@ -97,8 +103,9 @@ export function derivedFigures(d: DerivedInput): DerivedFigures {
     }),
   });
   warnings.push(...response.warnings);
+  const floor = floorFractionUncertainty(floorFraction, { gammaUncertainty: response.record.check.gammaUncertainty ?? 0, ...(d.bitsPerPixel !== undefined ? { bitsPerPixel: d.bitsPerPixel } : {}) });
   return {
-    floorFraction, contrastRatio, linearised, cameraResponse: response.record, warnings,
+    floorFraction: floor.fraction, ...(floor.terms ? { floorFractionTerms: floor.terms } : {}), contrastRatio, linearised, cameraResponse: response.record, warnings,
     ...(d.channelIntensity ? { channels: channelFits(d) } : {}),
   };
 }

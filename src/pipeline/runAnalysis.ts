@@ -111,7 +111,7 @@ function fitStage(m: Measured, o: AnalyzeOptions, baseline: RunResult | undefine
     openLevel: m.open.level, vpiHint: synced.vpiHint, vAbsMax: m.vAbsMax, robust: o.robust !== false,
   });
   const derived = derivedFigures({
-    fitted, cell, openLevel: m.open.level, decoding: clip.decoding, bitDepth: clip.info.bitDepth, transferFromOption: o.transfer !== undefined,
+    fitted, cell, openLevel: m.open.level, decoding: clip.decoding, bitDepth: clip.info.bitDepth, transferFromOption: o.transfer !== undefined, bitsPerPixel: m.bitsPerPixel,
     ...(clip.cameraProfile ? { cameraProfile: clip.cameraProfile } : {}), ...(series.channelIntensity ? { channelIntensity: series.channelIntensity } : {}),
   });
   const budget = budgetAndGates({

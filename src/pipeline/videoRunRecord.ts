@@ -121,6 +121,7 @@ export function videoRunRecord(r: VideoRunRecordInput): RunResult {
       ...(r.figures.conductivity ? { conductivity: r.figures.conductivity } : {}),
       ...(derived.channels ? { channels: derived.channels } : {}),
       cameraResponse: derived.cameraResponse,
+      ...(derived.floorFractionTerms ? { floorFractionTerms: derived.floorFractionTerms } : {}),
     },
     files: p.files,
   });

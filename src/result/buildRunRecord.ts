@@ -52,7 +52,7 @@ export interface RunRecordParts {
   warnings: readonly RunWarning[];
   files?: Record<string, string>;
   /** Optional sections some sources have. */
-  extras?: Pick<RunResult, 'scatter' | 'hysteresis' | 'conductivity' | 'channels' | 'cameraResponse'>;
+  extras?: Pick<RunResult, 'scatter' | 'hysteresis' | 'conductivity' | 'channels' | 'cameraResponse' | 'floorFractionTerms'>;
 }
 
 export function buildRunRecord(p: RunRecordParts): RunResult {

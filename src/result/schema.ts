@@ -11,6 +11,7 @@ import type { InputName } from '../core/inputName.js';
 export type { WarningCode } from './warningCode.js';
 export type { ExclusionReason } from './exclusionReason.js';
 import type { UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
+import type { FloorFractionTerms } from '../core/figures/floorFraction.js';
 
 /**
  * 2: kerrConstant.stdErr and halfWaveVoltage.stdErr are the combined standard uncertainties of the
@@ -172,6 +173,12 @@ export interface RunResult {
    * "cameraResponse" for the uncertainty budget (m/V², a standard uncertainty of B).
    */
   cameraResponse?: CameraResponseRecord;
+  /**
+   * The floor fraction's uncertainty terms, each a standard uncertainty of the fraction
+   * (core/figures/floorFraction: fit, camera response, surround, compression for video); their
+   * root sum of squares is floorFraction.stdErr. Absent in older results.
+   */
+  floorFractionTerms?: FloorFractionTerms;
   warnings: RunWarning[];
   /** Files written beside result.json, relative names. */
   files: Record<string, string>;
@@ -202,6 +209,8 @@ export interface CameraResponseRecord {
     relativeShiftB: number;
     standardUncertainty: { value: number; unit: 'm/V^2' };
     departs: boolean;
+    /** RMS error of γ = 1 under what is known of γ (the floor fraction's camera-response term uses it); absent in older results. */
+    gammaUncertainty?: number;
   };
 }
 

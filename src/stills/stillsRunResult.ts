@@ -41,6 +41,7 @@ import { fitStillsSeries, type StillsFit } from './fitStillsSeries.js';
 import { linearisedCrossCheck } from '../core/fit/linearisedCrossCheck.js';
 import { linearisedDisagreement } from '../core/fit/linearisedDisagreement.js';
 import { contrastRatio, usedVoltageRange } from '../core/figures/contrastRatio.js';
+import { floorFractionUncertainty } from '../core/figures/floorFraction.js';
 import { checkOpenLevel } from '../core/gates/checkOpenLevel.js';
 import { buildRunRecord } from '../result/buildRunRecord.js';
 import { stillsCameraResponse, type StillsResponseChoice } from './stillsCameraResponse.js';
@@ -126,6 +127,7 @@ export function stillsRunResult(input: StillsRunInput): StillsRun {
   });
   warnings.push(...response.warnings);
   const b = input.budget ?? {};
+  const floor = floorFractionUncertainty(fitted.floorFraction, { gammaUncertainty: response.record.check.gammaUncertainty ?? 0 });
   const uncertainty = stillsUncertainty({
     fit, curveInput: fitted.curveInput,
     voltsAccuracyPercent: b.voltsAccuracyPercent ?? DEFAULT_PHOTO_VOLTS_ACCURACY_PERCENT,
@@ -143,7 +145,7 @@ export function stillsRunResult(input: StillsRunInput): StillsRun {
     cell: { ...cell, electrodeHeightM: null, wavelengthNm: null },
     camera: { width: series.width, height: series.height, fps: null, variableFrameRate: false, transfer: usedTransfers(series).join('+'), range: 'full' },
     regions: stillsRegions(series),
-    figures: { kerrConstant: fit.kerrConstant, halfWaveVoltage: fit.halfWaveVoltage, syncOffset: quantity(0, undefined, 's'), floorFraction: fitted.floorFraction, contrastRatio: contrast.ratio },
+    figures: { kerrConstant: fit.kerrConstant, halfWaveVoltage: fit.halfWaveVoltage, syncOffset: quantity(0, undefined, 's'), floorFraction: floor.fraction, contrastRatio: contrast.ratio },
     uncertainty,
     validity: { valid: gates.failures.length === 0, failures: gates.failures },
     identifiable: fit.identifiable,
@@ -163,7 +165,7 @@ export function stillsRunResult(input: StillsRunInput): StillsRun {
     events,
     log: { rows: series.files.length, spanS: captureSpanS(series), currentColumn: false, temperatureC: null },
     warnings,
-    extras: { cameraResponse: response.record },
+    extras: { cameraResponse: response.record, ...(floor.terms ? { floorFractionTerms: floor.terms } : {}) },
   });
   return { result, trace, fit: fitted };
 }

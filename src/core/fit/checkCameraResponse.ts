@@ -62,6 +62,12 @@ export interface ResponseCheck {
   standardUncertainty: { value: number; unit: 'm/V^2' };
   /** |γ − 1| > 2σ and > 0.02. */
   departs: boolean;
+  /**
+   * Root-mean-square error in γ of leaving the response at γ = 1, under what is known of γ
+   * (posteriorGammaError; the prior u₀ when the check did not run): the floor fraction's
+   * camera-response term is built from it (core/figures/floorFraction).
+   */
+  gammaUncertainty: number;
 }
 
 /** x of the open-level point: a finite marker no voltage reaches (the least-squares code wants finite x). */
@@ -76,6 +82,7 @@ function skipped(reason: string): ResponseCheck {
     relativeShiftB: NaN,
     standardUncertainty: { value: 0, unit: 'm/V^2' },
     departs: false,
+    gammaUncertainty: PRIOR_GAMMA_STD_ERR,
   };
 }
 
@@ -109,12 +116,24 @@ export const PRIOR_CONFLICT_Z = 3;
  * departure is not linear in γ): u(B) = √((B_γ − B₁)² + s²σ²).
  */
 export function posteriorResponseTerm(c: { gamma: number; gammaErr: number; slope: number; shift: number }): number {
+  const p = posteriorGamma(c);
+  if (p.conflict) return Math.sqrt(c.shift * c.shift + c.slope * c.slope * c.gammaErr * c.gammaErr);
+  return Math.abs(c.slope) * p.rmsError;
+}
+
+/**
+ * What is known of γ after the check (posteriorResponseTerm's update): whether the check
+ * contradicts the prior, and the root-mean-square error of taking γ = 1,
+ * √((γ_p − 1)² + u_p²), or √((γ̂ − 1)² + σ²) on a conflict (the check alone).
+ */
+export function posteriorGamma(c: { gamma: number; gammaErr: number }): { conflict: boolean; rmsError: number } {
   const sigma2 = c.gammaErr * c.gammaErr;
   const u02 = PRIOR_GAMMA_STD_ERR * PRIOR_GAMMA_STD_ERR;
-  if (Math.abs(c.gamma - 1) > PRIOR_CONFLICT_Z * Math.sqrt(sigma2 + u02)) return Math.sqrt(c.shift * c.shift + c.slope * c.slope * sigma2);
+  const d = c.gamma - 1;
+  if (Math.abs(d) > PRIOR_CONFLICT_Z * Math.sqrt(sigma2 + u02)) return { conflict: true, rmsError: Math.sqrt(d * d + sigma2) };
   const lambda = (1 / sigma2) / (1 / sigma2 + 1 / u02);
-  const offset = lambda * (c.gamma - 1);
-  return Math.abs(c.slope) * Math.sqrt(offset * offset + lambda * sigma2);
+  const offset = lambda * d;
+  return { conflict: false, rmsError: Math.sqrt(offset * offset + lambda * sigma2) };
 }
 
 /**
@@ -239,5 +258,6 @@ export function checkCameraResponse(input: ResponseCheckInput): ResponseCheck {
     relativeShiftB: bGamma / input.kerrConstant - 1,
     standardUncertainty: { value: term, unit: 'm/V^2' },
     departs,
+    gammaUncertainty: posteriorGamma({ gamma, gammaErr }).rmsError,
   };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkCameraResponse, posteriorResponseTerm, PRIOR_GAMMA_STD_ERR } from '../../../src/core/fit/checkCameraResponse.js';
+import { checkCameraResponse, posteriorGamma, posteriorResponseTerm, PRIOR_GAMMA_STD_ERR } from '../../../src/core/fit/checkCameraResponse.js';
 import { fitKerrCurve } from '../../../src/core/fit/fitKerrCurve.js';
 import { makeRng } from '../../../src/sim/rng.js';
 
@@ -96,5 +96,28 @@ describe('posteriorResponseTerm: the check combined with the prior γ = 1 ± u�
     expect(term(1.3, 0.05) / (s * Math.hypot(0.3, 0.05))).toBeCloseTo(1, 9);
     // 0.1 from 1 against √(0.05² + 0.02²): no conflict, the prior pulls the term down
     expect(term(1.1, 0.05)).toBeLessThan(s * Math.hypot(0.1, 0.05));
+  });
+});
+
+describe('posteriorGamma: what is known of γ after the check (the floor fraction uses it)', () => {
+  it('is the B term divided by |s| without a conflict, and the check alone with one', () => {
+    const s = 2e-12;
+    for (const [g, sigma] of [[1.01, 0.005], [1.0, 0.05], [0.99, 0.02]] as const) {
+      const p = posteriorGamma({ gamma: g, gammaErr: sigma });
+      expect(p.conflict).toBe(false);
+      expect(p.rmsError * s).toBeCloseTo(posteriorResponseTerm({ gamma: g, gammaErr: sigma, slope: s, shift: 0 }), 25);
+    }
+    const c = posteriorGamma({ gamma: 1.3, gammaErr: 0.05 });
+    expect(c.conflict).toBe(true);
+    expect(c.rmsError).toBeCloseTo(Math.hypot(0.3, 0.05), 12);
+  });
+
+  it('a check that did not run leaves the prior u₀ for the floor fraction', () => {
+    const few = checkCameraResponse({
+      voltageV: new Float64Array(5), intensity: new Float64Array(5), used: new Uint8Array(5).fill(1),
+      fit: { floor: 0.01, amplitude: 1, halfWaveVoltageV: 1000 }, polariserAngleDeg: 45, effectiveLengthM: 0.05, gapM: 0.005, kerrConstant: 2.4e-12, errorInflation: 1,
+    });
+    expect(few.checked).toBe(false);
+    expect(few.gammaUncertainty).toBe(PRIOR_GAMMA_STD_ERR);
   });
 });
