@@ -16,7 +16,8 @@ export function findSparks(clip: Pick<ClipMeasurement, 'grid' | 'geom' | 'beamRe
   const frameMean = frameMeansOf(grid);
   const box = sparkBox(grid, clip.geom ? clip.geom.b1 : clip.beamRect);
   const inside = Math.max(0, box.x1 - box.x0 + 1) * Math.max(0, box.y1 - box.y0 + 1);
-  if (cells - inside < 16) return detectFlashes(frameMean);
+  // an empty box (a region in the grid's right or bottom remainder) has nothing inside to take out
+  if (inside === 0 || cells - inside < 16) return detectFlashes(frameMean);
   const boxSum = boxSumSeries(grid, box);
   if (!boxSum) return detectFlashes(frameMean); // a box a bounded store did not track (not made by measureClip): the whole frame
   const outside = new Float64Array(frameMean.length);

@@ -10,7 +10,7 @@
  * least 2 blocks), or the beam itself when that would cover the whole grid.
  * @example beamSurroundBoxes({ x0: 10, y0: 10, x1: 18, y1: 18 }, 160, 90)[3] → grown by 7
  */
-import { growCellBox, rectToCellBox, cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
+import { growCellBox, rectToCellBox, cellBoxArea, sameCellBox, type CellBox } from '../core/regions/cellGeometry.js';
 import type { Rect } from '../media/types.js';
 
 /** Block geometry of a grid. */
@@ -45,8 +45,6 @@ export function keepOutBox(grid: GridDims, beamRect: Rect): CellBox | null {
   return cellBoxArea(grown) >= gw * gh ? beamBox : grown;
 }
 
-export const sameBox = (a: CellBox, b: CellBox): boolean => a.x0 === b.x0 && a.y0 === b.y0 && a.x1 === b.x1 && a.y1 === b.y1;
-
 /**
  * Every box read at every frame for a beam: its rings when given (a found beam), the spark box of
  * the outer ring (or of the beam without rings) and the keep-out box; each once.
@@ -55,7 +53,7 @@ export function fullRateBoxes(grid: GridDims, beamRect: Rect, outerRect: Rect, b
   const out: CellBox[] = [];
   const keepOut = keepOutBox(grid, beamRect);
   for (const b of [...(beamBoxes ?? []), sparkBox(grid, outerRect), ...(keepOut ? [keepOut] : [])]) {
-    if (!out.some((o) => sameBox(o, b))) out.push(b);
+    if (!out.some((o) => sameCellBox(o, b))) out.push(b);
   }
   return out;
 }

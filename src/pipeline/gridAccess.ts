@@ -6,9 +6,9 @@
  * @example const means = frameMeansOf(grid); const sums = boxSums(grid, box) // null: a box the bounded store did not track
  */
 import { frameMeans } from '../core/events/frameMeans.js';
-import { cellBoxArea, type CellBox } from '../core/regions/cellGeometry.js';
+import { cellBoxArea, sameCellBox, type CellBox } from '../core/regions/cellGeometry.js';
+import { boxTotals } from '../core/scatter/boxSeries.js';
 import type { GridStore } from './decodePass.js';
-import { sameBox } from './fullRateBoxes.js';
 
 /** Frames of the clip (rows of an unbounded store). */
 export function clipFrames(grid: GridStore): number {
@@ -29,20 +29,6 @@ export interface BoxSums {
   /** Undefined when the store has no clip bits. */
   clippedBlocks: Float64Array | undefined;
   count: number;
-}
-
-/** Σ over the box (rows, then columns) of one frame-major store, at every frame. */
-function sumBox(data: Float32Array, frames: number, cells: number, width: number, b: CellBox): Float64Array {
-  const out = new Float64Array(frames);
-  for (let f = 0; f < frames; f++) {
-    let s = 0;
-    for (let y = b.y0; y <= b.y1; y++) {
-      const row = f * cells + y * width;
-      for (let x = b.x0; x <= b.x1; x++) s += data[row + x]!;
-    }
-    out[f] = s;
-  }
-  return out;
 }
 
 function countClipped(bits: Uint8Array, frames: number, cells: number, width: number, b: CellBox): Float64Array {
@@ -67,6 +53,11 @@ function column(table: Float64Array, k: number, nb: number, frames: number): Flo
   return out;
 }
 
+/** Where a bounded store keeps the box's sums (−1: a box it did not track). */
+function trackedIndex(grid: GridStore, box: CellBox): number {
+  return grid.tracked!.boxes.findIndex((b) => sameCellBox(b, box));
+}
+
 /**
  * The box's sums at every frame, or null when a bounded store did not track this box (it keeps
  * only the boxes fullRateBoxes names for its beam).
@@ -75,12 +66,12 @@ export function boxSums(grid: GridStore, box: CellBox): BoxSums | null {
   const count = cellBoxArea(box);
   const t = grid.tracked;
   if (!t) {
-    const { frames, gridWidth: w } = grid;
-    const cells = w * grid.gridHeight;
-    const rgb = grid.rgb ? { r: sumBox(grid.rgb.r, frames, cells, w, box), g: sumBox(grid.rgb.g, frames, cells, w, box), b: sumBox(grid.rgb.b, frames, cells, w, box) } : undefined;
-    return { luma: sumBox(grid.data, frames, cells, w, box), rgb, clippedBlocks: grid.clipped ? countClipped(grid.clipped, frames, cells, w, box) : undefined, count };
+    const { frames, gridWidth: w, gridHeight: h } = grid;
+    const sum = (data: Float32Array) => boxTotals(data, frames, w, h, box);
+    const rgb = grid.rgb ? { r: sum(grid.rgb.r), g: sum(grid.rgb.g), b: sum(grid.rgb.b) } : undefined;
+    return { luma: sum(grid.data), rgb, clippedBlocks: grid.clipped ? countClipped(grid.clipped, frames, w * h, w, box) : undefined, count };
   }
-  const k = t.boxes.findIndex((b) => sameBox(b, box));
+  const k = trackedIndex(grid, box);
   if (k < 0) return null;
   const nb = t.boxes.length, frames = clipFrames(grid);
   const rgb = t.rgb ? { r: column(t.rgb.r, k, nb, frames), g: column(t.rgb.g, k, nb, frames), b: column(t.rgb.b, k, nb, frames) } : undefined;
@@ -90,8 +81,8 @@ export function boxSums(grid: GridStore, box: CellBox): BoxSums | null {
 /** Sum of luminance over a box of blocks at every frame, or null for a box a bounded store did not track. */
 export function boxSumSeries(grid: GridStore, box: CellBox): Float64Array | null {
   const t = grid.tracked;
-  if (!t) return sumBox(grid.data, grid.frames, grid.gridWidth * grid.gridHeight, grid.gridWidth, box);
-  const k = t.boxes.findIndex((b) => sameBox(b, box));
+  if (!t) return boxTotals(grid.data, grid.frames, grid.gridWidth, grid.gridHeight, box);
+  const k = trackedIndex(grid, box);
   return k < 0 ? null : column(t.luma, k, t.boxes.length, clipFrames(grid));
 }
 

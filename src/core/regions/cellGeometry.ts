@@ -55,6 +55,11 @@ export function growCellBox(box: CellBox, by: number, gridWidth: number, gridHei
   };
 }
 
+/** The same blocks: every edge equal. */
+export function sameCellBox(a: CellBox, b: CellBox): boolean {
+  return a.x0 === b.x0 && a.y0 === b.y0 && a.x1 === b.x1 && a.y1 === b.y1;
+}
+
 export function cellBoxesOverlap(a: CellBox, b: CellBox): boolean {
   return a.x0 <= b.x1 && b.x0 <= a.x1 && a.y0 <= b.y1 && b.y0 <= a.y1;
 }

@@ -1,5 +1,5 @@
 /**
- * Per-frame mean of the luminance grid over a box of blocks (`boxSeries`), or over everything
+ * Per-frame sum (`boxTotals`) or mean of the luminance grid over a box of blocks (`boxSeries`), or over everything
  * outside a box (`outsideBoxSeries`, from the whole-frame means so that only the box's blocks are
  * visited: frames × box area additions rather than frames × all blocks).
  *
@@ -19,10 +19,10 @@ function checkBox(box: CellBox, gridWidth: number, gridHeight: number): void {
   }
 }
 
-export function boxSeries(grid: Float32Array, frames: number, gridWidth: number, gridHeight: number, box: CellBox): Float64Array {
+/** Σ over the box at every frame (rows, then columns): the sums boxSeries divides by the box's area. */
+export function boxTotals(grid: Float32Array, frames: number, gridWidth: number, gridHeight: number, box: CellBox): Float64Array {
   checkBox(box, gridWidth, gridHeight);
   const cells = gridWidth * gridHeight;
-  const area = cellBoxArea(box);
   const out = new Float64Array(frames);
   for (let f = 0; f < frames; f++) {
     let s = 0;
@@ -31,9 +31,14 @@ export function boxSeries(grid: Float32Array, frames: number, gridWidth: number,
       const row = off + y * gridWidth;
       for (let x = box.x0; x <= box.x1; x++) s += grid[row + x]!;
     }
-    out[f] = s / area;
+    out[f] = s;
   }
   return out;
+}
+
+export function boxSeries(grid: Float32Array, frames: number, gridWidth: number, gridHeight: number, box: CellBox): Float64Array {
+  const area = cellBoxArea(box);
+  return boxTotals(grid, frames, gridWidth, gridHeight, box).map((s) => s / area);
 }
 
 export function outsideBoxSeries(grid: Float32Array, frameMean: Float64Array, gridWidth: number, gridHeight: number, box: CellBox): Float64Array {

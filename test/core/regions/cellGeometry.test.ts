@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { cellBoxToRect, rectToCellBox, growCellBox, cellBoxesOverlap, cellBoxArea } from '../../../src/core/regions/cellGeometry.js';
-import { boxSeries, outsideBoxSeries } from '../../../src/core/scatter/boxSeries.js';
+import { cellBoxToRect, rectToCellBox, growCellBox, cellBoxesOverlap, cellBoxArea, sameCellBox } from '../../../src/core/regions/cellGeometry.js';
+import { boxSeries, boxTotals, outsideBoxSeries } from '../../../src/core/scatter/boxSeries.js';
 import { referenceGain } from '../../../src/core/scatter/referenceGain.js';
 
 describe('block geometry', () => {
@@ -15,13 +15,17 @@ describe('block geometry', () => {
     expect(cellBoxesOverlap({ x0: 0, y0: 0, x1: 2, y1: 2 }, { x0: 2, y0: 2, x1: 4, y1: 4 })).toBe(true);
     expect(cellBoxesOverlap({ x0: 0, y0: 0, x1: 2, y1: 2 }, { x0: 3, y0: 0, x1: 4, y1: 4 })).toBe(false);
     expect(cellBoxArea({ x0: 1, y0: 1, x1: 3, y1: 2 })).toBe(6);
+    expect(sameCellBox({ x0: 1, y0: 1, x1: 3, y1: 2 }, { x0: 1, y0: 1, x1: 3, y1: 2 })).toBe(true);
+    expect(sameCellBox({ x0: 1, y0: 1, x1: 3, y1: 2 }, { x0: 1, y0: 1, x1: 3, y1: 3 })).toBe(false);
   });
 
   it('averages the grid inside and outside a box per frame (hand sums)', () => {
     // 3×2 grid, 2 frames: frame 0 = 1..6, frame 1 = 10·(1..6)
     const grid = Float32Array.of(1, 2, 3, 4, 5, 6, 10, 20, 30, 40, 50, 60);
     const box = { x0: 1, y0: 0, x1: 2, y1: 1 }; // values 2,3,5,6
+    expect(Array.from(boxTotals(grid, 2, 3, 2, box))).toEqual([16, 160]); // 2+3+5+6
     expect(Array.from(boxSeries(grid, 2, 3, 2, box))).toEqual([4, 40]);
+    expect(() => boxTotals(grid, 2, 3, 2, { x0: 2, y0: 0, x1: 1, y1: 1 })).toThrow(/does not lie inside/);
     const frameMean = Float64Array.of(3.5, 35);
     expect(Array.from(outsideBoxSeries(grid, frameMean, 3, 2, box))).toEqual([2.5, 25]); // (1+4)/2
     expect(() => outsideBoxSeries(grid, frameMean, 3, 2, { x0: 0, y0: 0, x1: 2, y1: 1 })).toThrow(/whole grid/);
