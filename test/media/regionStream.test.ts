@@ -2,7 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync } from 'node:fs';
 import { openRegionStream } from '../../src/media/regionStream.js';
 import { openFrameStream } from '../../src/media/frameStream.js';
-import { rawPipesArgs } from '../../src/media/rawVideoPipes.js';
+import { decoderThreads, rawPipesArgs } from '../../src/media/rawVideoPipes.js';
+import { execFile } from 'node:child_process';
+import { promisify } from 'node:util';
+import { ffmpegPath } from '../../src/media/ffmpegPaths.js';
 import { probeMedia } from '../../src/media/probe.js';
 import { KerrError } from '../../src/errors.js';
 import { ffprobeFrameTimes, makeClip, tempDir } from '../helpers/makeClip.js';
@@ -62,6 +65,22 @@ describe('openRegionStream', () => {
     expect(args.join(' ')).toContain('split=2');
     expect(args).toContain('pipe:1');
     expect(args).toContain('pipe:3');
+  });
+
+  it('decodes with more threads than ffmpeg would pick, and the pixels are those of a one-thread decode', async () => {
+    const probe = await probeMedia(clip);
+    const args = rawPipesArgs({ probe, outputs: [{ filter: '', width: 160, height: 120 }], expectedFrames: 30, pixelFormat: 'yuv420p' });
+    expect(args[args.indexOf('-threads') + 1]).toBe(String(decoderThreads()));
+    expect(args.indexOf('-threads')).toBeLessThan(args.indexOf('-i')); // a decoder option, before the input
+    // the reference: ffmpeg itself, one decoding thread, the same raw 4:2:0 frames
+    const { stdout } = await promisify(execFile)(ffmpegPath(), ['-v', 'error', '-threads', '1', '-i', clip, '-vsync', '0', '-f', 'rawvideo', '-pix_fmt', 'yuv420p', '-'], { encoding: 'buffer', maxBuffer: 1 << 26 });
+    const frameBytes = 160 * 120 * 3 / 2;
+    let n = 0;
+    for await (const f of openFrameStream(clip)) {
+      expect(Buffer.from(f.data.subarray(0, frameBytes)).equals(stdout.subarray(n * frameBytes, (n + 1) * frameBytes))).toBe(true);
+      n++;
+    }
+    expect(n * frameBytes).toBe(stdout.length);
   });
 
   it('ends a truncated file with TRUNCATED_MEDIA and refuses regions outside the frame', async () => {
