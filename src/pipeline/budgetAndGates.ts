@@ -70,6 +70,7 @@ export function budgetAndGates(b: BudgetInput): BudgetAndGates {
     ...(open.level !== undefined ? { openLevel: { stdErr: open.stdErr, note: open.note } } : {}),
     ...(b.cameraResponseRel === undefined && cameraResponseRel !== undefined && !check.checked
       ? { cameraResponseNote: `no response check (sweep below 0.8·V_π, no open level): B refitted at γ = 1 ± ${check.gamma.stdErr} (prior)` } : {}),
+    bitsPerPixel: b.bitsPerPixel,
     frames: { voltageV: synced.voltage, intensity: b.intensity, include: Uint8Array.from(b.excluded, (e) => (e ? 0 : 1)), timesS: times },
   });
   const noise = frameNoise(fitted.iUsed);

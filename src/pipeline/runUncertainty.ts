@@ -3,11 +3,13 @@
  * residuals accounted for), the sync term by refitting V_π with the voltage read at the sync
  * offset ± its standard uncertainty (a central difference: u_r,sync = |V_π(+) − V_π(−)|/(2·V_π)),
  * the voltage calibration and geometry from the user's accuracy and tolerances (rectangular
- * limits, u = a/√3), and the camera-response term when the caller has one. Combined by
+ * limits, u = a/√3), the camera-response term when the caller has one, and the compression term
+ * from the clip's bits per pixel (core/uncertainty/compressionTerm). Combined by
  * kerrUncertaintyBudget (GUM). Pure apart from calling the fit.
  */
 import { fitKerrCurve, type KerrCurveFit, type KerrCurveInput } from '../core/fit/fitKerrCurve.js';
 import { hysteresis } from '../core/scatter/hysteresis.js';
+import { compressionRelB, COMPRESSION_B_REL_AT_ONE_BPP } from '../core/uncertainty/compressionTerm.js';
 import { kerrUncertaintyBudget, rectangularRelative, type UncertaintyBudget } from '../core/uncertainty/uncertaintyBudget.js';
 
 export interface RunUncertaintyInput {
@@ -35,6 +37,8 @@ export interface RunUncertaintyInput {
   cameraResponseRel?: number;
   /** Where the camera-response term comes from (default: the run's response check). */
   cameraResponseNote?: string;
+  /** Bits per pixel per frame of the clip, for the compression term (omitted or NaN: not a video, no term). */
+  bitsPerPixel?: number;
   /** Every frame (time order) for the rising/falling comparison; omitted: no ramp term. */
   frames?: { voltageV: Float64Array; intensity: Float64Array; include: Uint8Array; timesS: Float64Array };
 }
@@ -127,5 +131,8 @@ export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: Uncertai
     lengthRel: rectangularRelative(i.lengthToleranceM, i.lengthM),
     lengthNote: i.lengthToleranceM > 0 ? `length ±${(i.lengthToleranceM * 1000).toPrecision(3)} mm (rectangular, /√3)` : 'no length tolerance given (--length-mm L±T)',
     ...(i.cameraResponseRel !== undefined ? { cameraResponseRel: i.cameraResponseRel, cameraResponseNote: i.cameraResponseNote ?? 'camera response check' } : {}),
+    ...(i.bitsPerPixel !== undefined && Number.isFinite(i.bitsPerPixel) && i.bitsPerPixel > 0
+      ? { compressionRel: compressionRelB(i.bitsPerPixel), compressionNote: `lossy video coding at ${i.bitsPerPixel.toPrecision(2)} bits per pixel per frame: ${(COMPRESSION_B_REL_AT_ONE_BPP * 100).toFixed(1)} % of B / √(bits per pixel) (Type B, from the coverage study)` }
+      : {}),
   });
 }

@@ -7,8 +7,8 @@
  * near-normal result).
  *
  * Model: B = d²/(2·L_eff·V_π²), V_π measured in the logger's volts. So
- *   u_r(V_π)² = u_r,stat² + u_r,sync² + u_r,ramp² + u_r,open² + u_r,V²     (+ (½·u_r,cam)² when a camera term is given)
- *   u_r(B)²   = (2·u_r,stat)² + (2·u_r,sync)² + (2·u_r,ramp)² + (2·u_r,open)² + (2·u_r,V)² + (2·u_r(d))² + u_r(L)² + u_r,cam²
+ *   u_r(V_π)² = u_r,stat² + u_r,sync² + u_r,ramp² + u_r,open² + u_r,V²     (+ (½·u_r,cam)² + (½·u_r,comp)² when given)
+ *   u_r(B)²   = (2·u_r,stat)² + (2·u_r,sync)² + (2·u_r,ramp)² + (2·u_r,open)² + (2·u_r,V)² + (2·u_r(d))² + u_r(L)² + u_r,cam² + u_r,comp²
  * where u_r,stat is V_π's statistical relative error (correlated residuals accounted for),
  * u_r,sync the change of V_π when the sync offset moves by its standard uncertainty,
  * u_r,ramp the systematic that rising and falling ramps show by disagreeing beyond their
@@ -17,7 +17,8 @@
  * standard uncertainty (present only when an open level was used),
  * u_r,V the voltage calibration (a logger reading wrong by a factor scales V_π by that factor),
  * u_r(d), u_r(L) the gap and length tolerances, and u_r,cam the camera-response term on B (from
- * the response check of the camera work, when it ran).
+ * the response check of the camera work, when it ran), and u_r,comp the compression term on B
+ * (compressionTerm.ts; video only).
  *
  * Terms that belong to the instrument and the cell, not to the run — voltage calibration, gap,
  * length — are the same for every run of one cell with one logger: they cancel in the ratio of a
@@ -27,7 +28,7 @@
  *   syncRel: 0.0005, voltageCalibrationRel: 0.00577, gapRel: 0.0072, lengthRel: 0.0014 })
  *   .kerrConstant.relativeCombined ≈ 0.0186
  */
-export type UncertaintyTermName = 'statistical' | 'sync' | 'ramp-consistency' | 'open-level' | 'voltage-calibration' | 'gap' | 'length' | 'camera-response';
+export type UncertaintyTermName = 'statistical' | 'sync' | 'ramp-consistency' | 'open-level' | 'voltage-calibration' | 'gap' | 'length' | 'camera-response' | 'compression';
 
 export interface UncertaintyTerm {
   name: UncertaintyTermName;
@@ -91,6 +92,9 @@ export interface BudgetInput {
   /** Relative standard uncertainty that the camera response puts on B (optional). */
   cameraResponseRel?: number;
   cameraResponseNote?: string;
+  /** Relative standard uncertainty that lossy video coding puts on B (optional; compressionTerm.ts). */
+  compressionRel?: number;
+  compressionNote?: string;
 }
 
 export const COVERAGE_FACTOR = 2;
@@ -128,6 +132,8 @@ export function kerrUncertaintyBudget(i: BudgetInput): { kerrConstant: Uncertain
   const rampNote = i.rampNote ?? 'rising and falling ramps not compared';
   const hasCam = i.cameraResponseRel !== undefined;
   const hasOpen = i.openLevelNote !== undefined;
+  const hasComp = i.compressionRel !== undefined;
+  const compNote = i.compressionNote ?? 'lossy video coding';
   const vpiTerms = [
     term('statistical', i.statisticalRel, 1, false, statNote),
     term('sync', i.syncRel, 1, false, syncNote),
@@ -135,6 +141,7 @@ export function kerrUncertaintyBudget(i: BudgetInput): { kerrConstant: Uncertain
     ...(hasOpen ? [term('open-level', clean(i.openLevelRel), 1, false, i.openLevelNote!)] : []),
     term('voltage-calibration', i.voltageCalibrationRel, 1, true, vNote),
     ...(hasCam ? [term('camera-response', clean(i.cameraResponseRel) / 2, 1, false, camNote)] : []),
+    ...(hasComp ? [term('compression', clean(i.compressionRel) / 2, 1, false, compNote)] : []),
   ];
   const bTerms = [
     term('statistical', i.statisticalRel, -2, false, statNote),
@@ -145,6 +152,7 @@ export function kerrUncertaintyBudget(i: BudgetInput): { kerrConstant: Uncertain
     term('gap', i.gapRel, 2, true, gNote),
     term('length', i.lengthRel, -1, true, lNote),
     ...(hasCam ? [term('camera-response', clean(i.cameraResponseRel), 1, false, camNote)] : []),
+    ...(hasComp ? [term('compression', clean(i.compressionRel), 1, false, compNote)] : []),
   ];
   return { kerrConstant: combine(i.kerrConstant, 'm/V^2', bTerms), halfWaveVoltage: combine(i.halfWaveVoltageV, 'V', vpiTerms) };
 }
