@@ -132,7 +132,7 @@ export function runUncertainty(i: RunUncertaintyInput): { kerrConstant: Uncertai
     lengthNote: i.lengthToleranceM > 0 ? `length ±${(i.lengthToleranceM * 1000).toPrecision(3)} mm (rectangular, /√3)` : 'no length tolerance given (--length-mm L±T)',
     ...(i.cameraResponseRel !== undefined ? { cameraResponseRel: i.cameraResponseRel, cameraResponseNote: i.cameraResponseNote ?? 'camera response check' } : {}),
     ...(i.bitsPerPixel !== undefined && Number.isFinite(i.bitsPerPixel) && i.bitsPerPixel > 0
-      ? { compressionRel: compressionRelB(i.bitsPerPixel), compressionNote: `lossy video coding at ${i.bitsPerPixel.toPrecision(2)} bits per pixel per frame: ${(COMPRESSION_B_REL_AT_ONE_BPP * 100).toFixed(1)} % of B / √(bits per pixel) (Type B, from the coverage study)` }
+      ? { compressionRel: compressionRelB(i.bitsPerPixel), compressionNote: `lossy video coding at ${i.bitsPerPixel.toPrecision(2)} bits per pixel per frame: ${(COMPRESSION_B_REL_AT_ONE_BPP * 100).toPrecision(1)} % of B / √(bits per pixel) (Type B, from the coverage study)` }
       : {}),
   });
 }
