@@ -18,6 +18,12 @@
  * `scoreGrid` evaluates a set of V_π ratios with a tabulated sin² (linear interpolation over 4096
  * points per half period, error below 2e-7); `score` uses Math.sin for the refinement.
  *
+ * A frame whose log time falls inside a gap of the log (an interval longer than GAP_FACTOR × the
+ * median log interval: a logger dropout) is left out of that trial, never bridged by a straight
+ * line, by the same rule as the voltage the fit reads (core/signal/interpolateLog): a line under a
+ * dropped peak reads the voltage low and pulls the offset (coverage study case 86: 72 ms off at a
+ * stated 20 ms).
+ *
  * Preconditions (checked by findSyncOffset, not here): frame times non-decreasing, log times
  * strictly increasing, V_max > 0. Never mutates its inputs.
  *
@@ -26,6 +32,8 @@
  */
 
 import { lowerBound, segmentIndex, upperBound } from './sortedSearch.js';
+import { medianStep } from './medianStep.js';
+import { GAP_FACTOR } from '../signal/interpolateLog.js';
 
 const TABLE_SIZE = 4096; // entries per half period π of sin²
 const SIN2_TABLE = (() => {
@@ -65,6 +73,8 @@ interface Trace {
   logTimeS: Float64Array;
   /** Log voltage divided by its largest |V|. */
   logVoltageNorm: Float64Array;
+  /** 1 for each log interval [j, j+1] that is a gap (longer than GAP_FACTOR × the median interval). */
+  gapAfter: Uint8Array;
 }
 
 export function createModulationScorer(
@@ -79,7 +89,12 @@ export function createModulationScorer(
   for (let i = 0; i < logCount; i++) maxAbsVoltageV = Math.max(maxAbsVoltageV, Math.abs(logVoltageV[i]));
   const logVoltageNorm = new Float64Array(logCount);
   for (let i = 0; i < logCount; i++) logVoltageNorm[i] = logVoltageV[i] / maxAbsVoltageV;
-  const trace: Trace = { frameTimesS, intensity, logTimeS, logVoltageNorm };
+  const gapAfter = new Uint8Array(Math.max(0, logCount - 1));
+  if (logCount >= 3) {
+    const gapLimitS = GAP_FACTOR * medianStep(logTimeS);
+    for (let j = 0; j + 1 < logCount; j++) gapAfter[j] = logTimeS[j + 1] - logTimeS[j] > gapLimitS ? 1 : 0;
+  }
+  const trace: Trace = { frameTimesS, intensity, logTimeS, logVoltageNorm, gapAfter };
   const logStartS = logTimeS[0];
   const logEndS = logTimeS[logCount - 1];
   const g: Gathered = { u: new Float64Array(frameTimesS.length), centred: new Float64Array(frameTimesS.length), count: 0, sumSquaresI: 0 };
@@ -92,9 +107,9 @@ export function createModulationScorer(
   };
 }
 
-/** Fill `g` with the frames whose log time lies inside the log (two-pointer walk); 0 when fewer than minFrames. */
+/** Fill `g` with the frames whose log time lies inside the log and outside its gaps (two-pointer walk); 0 when fewer than minFrames. */
 function gatherFrames(g: Gathered, trace: Trace, offsetS: number, minFrames: number): number {
-  const { frameTimesS, intensity, logTimeS, logVoltageNorm } = trace;
+  const { frameTimesS, intensity, logTimeS, logVoltageNorm, gapAfter } = trace;
   const logCount = logTimeS.length;
   const first = lowerBound(frameTimesS, logTimeS[0] + offsetS);
   const end = upperBound(frameTimesS, logTimeS[logCount - 1] + offsetS);
@@ -109,6 +124,7 @@ function gatherFrames(g: Gathered, trace: Trace, offsetS: number, minFrames: num
     while (j < logCount - 2 && logTimeS[j + 1] <= logT) j++;
     const t0 = logTimeS[j];
     const t1 = logTimeS[j + 1];
+    if (gapAfter[j] === 1 && logT > t0 && logT < t1) continue; // inside a dropout: not bridged
     let fraction = (logT - t0) / (t1 - t0);
     if (fraction < 0) fraction = 0;
     else if (fraction > 1) fraction = 1;
@@ -118,6 +134,7 @@ function gatherFrames(g: Gathered, trace: Trace, offsetS: number, minFrames: num
     sumI += intensity[k];
     gathered++;
   }
+  if (gathered < minFrames) { g.count = 0; return 0; }
   const meanI = sumI / gathered;
   let sumSquaresI = 0;
   for (let k = 0; k < gathered; k++) {

@@ -6,18 +6,19 @@
  *
  *   u_r,comp(B) = K / √bpp,   bpp = bits per pixel per frame = 8·(file bytes) / (frames·width·height)
  *
- * The square-root law and K = 7·10⁻⁴ (0.07 % of B at one bit per pixel per frame, 0.4 % at 0.03)
+ * The square-root law and K = 5·10⁻⁴ (0.05 % of B at one bit per pixel per frame, 0.29 % at 0.03)
  * come from the coverage study (`npm run accuracy`, docs/uncertainty.md "The compression term"):
  * each case was encoded a second time near-losslessly (CRF 10) with everything else equal, and the
  * difference in B was modelled as N(0, u_stat² + (K·bpp^−p)²). On cases 0–63, maximum likelihood
  * gives K = 1.8·10⁻³ for p = ½ on the runs that passed their gates. That is an upper bound,
  * because part of the difference already widens the statistical term through correlated
- * residuals: with it, 79–83 % of valid runs fell within 1σ. K = 7·10⁻⁴ is the smallest of
- * 3, 5, 7 and 10·10⁻⁴ that brings every case set to 92 % within 2σ. Photo series (no bitrate)
+ * residuals: with it, 79–83 % of valid runs fell within 1σ. K = 5·10⁻⁴ is the smallest of
+ * 3, 5, 7 and 10·10⁻⁴ that brings each of the study's three case sets to 92 % within 2σ for B
+ * (with the sync leaving log gaps out, modulationScorer). Photo series (no bitrate)
  * carry no term. On V_π the term is halved (B ∝ V_π⁻²).
- * @example compressionRelB(0.49) === 0.001; compressionRelB(NaN) === 0
+ * @example compressionRelB(0.25) === 0.001; compressionRelB(NaN) === 0
  */
-export const COMPRESSION_B_REL_AT_ONE_BPP = 7e-4;
+export const COMPRESSION_B_REL_AT_ONE_BPP = 5e-4;
 
 /** Relative standard uncertainty of B from compression at `bitsPerPixel` (0 when not a video). */
 export function compressionRelB(bitsPerPixel: number): number {
