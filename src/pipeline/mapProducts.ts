@@ -185,8 +185,11 @@ export async function mapProducts(i: MapProductsInput): Promise<MapProducts> {
   // ffmpeg seeks and decodes while the maps are rendered, or since the caller started it.
   // without a frame from the caller: the most modulated frame used (no keyframe times here)
   const grab = i.frame ?? startFrameGrab(i.videoPath, i.times, i.startTimeS, showFrame(i.modulation, Uint8Array.from(i.used, (u) => 1 - u), i.times, new Float64Array()));
-  const [staticMapPng, modulatedMapPng] = await mapFigures(i, maps);
-  const frameWithRegionsPng = await regionsPicture(i, maps, overlayRegions(i, regions), grab.index, await grab.grabbed, warnings);
+  // the map figures and the regions picture are rendered at the same time (libvips threads)
+  const [[staticMapPng, modulatedMapPng], frameWithRegionsPng] = await Promise.all([
+    mapFigures(i, maps),
+    grab.grabbed.then((grabbed) => regionsPicture(i, maps, overlayRegions(i, regions), grab.index, grabbed, warnings)),
+  ]);
   const files: Record<string, Uint8Array> = {
     'maps/static.png': staticMapPng,
     'maps/modulated.png': modulatedMapPng,
