@@ -122,7 +122,7 @@ function fitStage(m: Measured, o: AnalyzeOptions, baseline: RunResult | undefine
   const figures = runFigures({
     fit: fitted.fit, cell, times: clip.times, voltage: synced.voltage, intensity: series.intensity, modulation: trace.modulation, used: trace.used,
     particleRate: m.exclusions.particleRate, floorFraction: derived.floorFraction, syncOffset: { value: synced.offsetS, ...(budget.offsetStdErrS !== undefined ? { stdErr: budget.offsetStdErrS } : {}) },
-    voltageAt: synced.voltageAt, log, ...(baseline ? { baseline } : {}),
+    voltageAt: synced.voltageAt, log, ...(baseline ? { baseline } : {}), bitsPerPixel: m.bitsPerPixel,
   });
   return { cell, synced, events, fitted, derived, budget, trace, figures };
 }

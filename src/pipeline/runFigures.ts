@@ -2,7 +2,8 @@
  * The scatter and liquid figures of a run that need no pictures, all from its one fit and its one
  * list of exclusions: particle-event rate (found before the fit, frameExclusions), floor flicker,
  * with a baseline run the polariser-leak and scatter floors, the up/down (hysteresis) comparison
- * with its sync-offset verdict, and the liquid's resistivity from the log's current column.
+ * with its sync-offset verdict (named `compression-lag` instead in footage below
+ * LAG_PRONE_BITS_PER_PIXEL), and the liquid's resistivity from the log's current column.
  * They are the same with and without maps; the maps add only the halo-to-core ratio
  * (mapProducts). The maths is in src/core/scatter; this file only wires it.
  * Throws KerrError BAD_RESULT for a baseline that is not a kerrtrace run result.
@@ -14,6 +15,7 @@ import { baselineFloor } from '../core/scatter/baselineFloor.js';
 import { hysteresis as fitHysteresis, type BranchFitter } from '../core/scatter/hysteresis.js';
 import { hysteresisVerdict } from '../core/scatter/hysteresisVerdict.js';
 import { liquidResistivity } from '../core/scatter/resistivity.js';
+import { LAG_PRONE_BITS_PER_PIXEL } from '../core/uncertainty/compressionTerm.js';
 import type { Quantity } from '../quantity.js';
 import type { VoltageLog } from '../io/voltageLog.js';
 import type { RunResult, RunWarning } from '../result/schema.js';
@@ -33,6 +35,8 @@ export interface RunFiguresInput {
   voltageAt: (logTimesS: Float64Array) => Float64Array;
   log: VoltageLog;
   baseline?: RunResult;
+  /** Bits per pixel per frame of the clip (omitted: photos), to tell codec lag from hysteresis. */
+  bitsPerPixel?: number;
 }
 
 export interface RunFigures {
@@ -74,7 +78,14 @@ function upDown(i: RunFiguresInput, warnings: RunWarning[]): Pick<RunFigures, 'h
   }
   if (result?.flagged) {
     const rel = (100 * result.difference.value) / ((result.up.value + result.down.value) / 2);
-    warnings.push({ code: 'hysteresis', message: `the Kerr constant differs between rising and falling voltage by ${rel.toFixed(1)}% (${Math.abs(result.zScore).toFixed(1)} standard errors): the liquid may conduct (space charge) or its temperature drifted; check its purity and dryness`, guideSection: 'sweep' });
+    const differs = `the Kerr constant differs between rising and falling voltage by ${rel.toFixed(1)}% (${Math.abs(result.zScore).toFixed(1)} standard errors)`;
+    const bpp = i.bitsPerPixel;
+    if (bpp !== undefined && Number.isFinite(bpp) && bpp > 0 && bpp < LAG_PRONE_BITS_PER_PIXEL) {
+      // a starved codec updates a dim spot late: the same signature as hysteresis, from the camera
+      warnings.push({ code: 'compression-lag', message: `${differs}, in footage of only ${bpp.toPrecision(2)} bits per pixel per frame: a codec this starved lets a dim spot lag the drive, which looks the same; record at a higher bitrate or quality before blaming the liquid (the difference enters the uncertainty as the ramp-consistency term)`, guideSection: 'sweep' });
+    } else {
+      warnings.push({ code: 'hysteresis', message: `${differs}: the liquid may conduct (space charge) or its temperature drifted; check its purity and dryness`, guideSection: 'sweep' });
+    }
   } else if (!result && h.note) {
     warnings.push({ code: 'hysteresis-not-measured', message: `up- and down-sweeps could not be compared: ${h.note}`, guideSection: 'sweep' });
   }

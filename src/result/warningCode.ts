@@ -38,6 +38,7 @@ export const WARNING_CODES = {
   'no-far-dark': 'no dark area far from the beam, so the halo-to-core ratio is not reported',
   'baseline-mismatch': 'the baseline run had another polariser angle, so the floors are not comparable',
   hysteresis: 'B differs between rising and falling voltage beyond its uncertainty',
+  'compression-lag': 'B differs between rising and falling voltage in footage starved of bits: likely the codec lagging, not the liquid',
   'hysteresis-not-measured': 'rising and falling sweeps could not be compared',
   'no-electrode-height': 'the log has a current column but no electrode height was given, so no resistivity',
   'reference-candidate': 'a bright steady area on the maps that could serve as the exposure reference region',

@@ -68,6 +68,18 @@ describe('runFigures', () => {
     expect(f.warnings.map((w) => w.code)).toContain('hysteresis');
   });
 
+  it('names the same difference compression lag, not hysteresis, in footage starved of bits', () => {
+    const i = figuresInput({ seed: 97, halfWaveDownV: 10500 });
+    const starved = runFigures({ ...i, bitsPerPixel: 0.04 });
+    expect(starved.hysteresis!.flagged).toBe(true); // the measurement is the same
+    const codes = starved.warnings.map((w) => w.code);
+    expect(codes).toContain('compression-lag');
+    expect(codes).not.toContain('hysteresis');
+    expect(starved.warnings.find((w) => w.code === 'compression-lag')!.message).toMatch(/0\.040 bits per pixel/);
+    // at a healthy bitrate it stays hysteresis
+    expect(runFigures({ ...i, bitsPerPixel: 0.5 }).warnings.map((w) => w.code)).toContain('hysteresis');
+  });
+
   it('refuses a baseline that is not a run result', () => {
     expect(() => checkBaseline({ kind: 'something-else' } as unknown as RunResult)).toThrow(/not a kerrtrace run result/);
   });

@@ -25,3 +25,12 @@ export function compressionRelB(bitsPerPixel: number): number {
   if (!(Number.isFinite(bitsPerPixel) && bitsPerPixel > 0)) return 0;
   return COMPRESSION_B_REL_AT_ONE_BPP / Math.sqrt(bitsPerPixel);
 }
+
+/**
+ * Below this many bits per pixel per frame a rising/falling difference of B is more likely the
+ * codec than the liquid: a starved encoder updates a dim spot late, so rising ramps read darker and
+ * falling ones brighter at the same voltage, which looks like hysteresis. Our choice, from the
+ * coverage study's CRF 10 comparison (median |ΔB| from compression 0.7 % at 0.06–0.2 bpp and above
+ * 1 % below 0.06 bpp; docs/uncertainty.md "The compression term").
+ */
+export const LAG_PRONE_BITS_PER_PIXEL = 0.1;
