@@ -57,7 +57,7 @@ export function budgetAndGates(b: BudgetInput): BudgetAndGates {
   const check = b.cameraResponse.check;
   const responseU = check.standardUncertainty.value / fit.kerrConstant.value;
   const cameraResponseRel = b.cameraResponseRel ?? (Number.isFinite(responseU) && responseU > 0 ? responseU : undefined);
-  const offsetStdErrS = syncOffsetUncertaintyS(synced.offsetStdErrS, fit.errorInflation, times);
+  const offsetStdErrS = syncOffsetUncertaintyS(synced.offsetStdErrS, fit.errorInflation, times, synced.logSteps);
   const uncertainty = runUncertainty({
     fit,
     fitInput: { ...fitted.fitInput, intensity: fitted.iUsed, voltageSigmaV: fitted.sUsed, onlyGivenStarts: true },

@@ -9,7 +9,7 @@
 import { KerrError } from '../errors.js';
 import { findSyncOffset } from '../core/sync/findSyncOffset.js';
 import { interpolateAt } from '../core/signal/interpolate.js';
-import { interpolateLog, GAP_FACTOR } from '../core/signal/interpolateLog.js';
+import { interpolateLog, GAP_FACTOR, medianInterval } from '../core/signal/interpolateLog.js';
 import { voltageNoiseV } from '../core/signal/voltageNoise.js';
 import { interpolationUncertaintyV } from '../core/signal/interpolationUncertainty.js';
 import type { VoltageLog } from '../io/voltageLog.js';
@@ -27,6 +27,8 @@ export interface SyncedRun {
   voltageSigmaV: Float64Array;
   /** The log's voltage at given log times, by the same rule as `voltage`. */
   voltageAt: (logTimesS: Float64Array) => Float64Array;
+  /** The log's steps among the frames read and its median interval, s (their edge timing: syncOffsetUncertainty). */
+  logSteps: { intervalS: number; count: number };
   /** Exclusions after the sync: the pre-sync list with log-gap and outside-log added. */
   excluded: (string | null)[];
   warnings: RunWarning[];
@@ -62,7 +64,7 @@ export function syncRun(i: SyncInput): SyncedRun {
   const query = Float64Array.from(times, (t) => t - found.offsetS);
   const logNoiseV = voltageNoiseV(log.voltageV);
   const voltageAt = (q: Float64Array): Float64Array => (log.rows >= 2 ? interpolateLog(log.timeS, log.voltageV, q, logNoiseV).valueV : interpolateAt(log.timeS, log.voltageV, q));
-  const reading = log.rows >= 2 ? interpolateLog(log.timeS, log.voltageV, query, logNoiseV) : { valueV: interpolateAt(log.timeS, log.voltageV, query), gap: new Uint8Array(n) };
+  const reading = log.rows >= 2 ? interpolateLog(log.timeS, log.voltageV, query, logNoiseV) : { valueV: interpolateAt(log.timeS, log.voltageV, query), gap: new Uint8Array(n), linear: new Uint8Array(n), stepCount: 0 };
   const voltage = reading.valueV;
   const excluded = i.excluded.slice();
   let inLog = 0, inGaps = 0;
@@ -74,5 +76,6 @@ export function syncRun(i: SyncInput): SyncedRun {
     throw new KerrError('NO_OVERLAP', `the voltage log (${log.timeS[0]!.toFixed(2)}–${log.timeS[log.rows - 1]!.toFixed(2)} s) and the video (${times[0]!.toFixed(2)}–${times[n - 1]!.toFixed(2)} s) overlap in only ${inLog} frame${inLog === 1 ? '' : 's'} with offset ${found.offsetS.toFixed(3)} s`, { path: '--volts', hint: 'Check that the log belongs to this video, or give the right --offset-s' });
   }
   const voltageSigmaV = interpolationUncertaintyV(log.timeS, log.voltageV, query, logNoiseV);
-  return { ...found, voltage, voltageSigmaV, voltageAt, excluded, warnings };
+  const logSteps = { intervalS: log.rows >= 3 ? medianInterval(log.timeS) : 0, count: reading.stepCount };
+  return { ...found, voltage, voltageSigmaV, voltageAt, logSteps, excluded, warnings };
 }

@@ -70,4 +70,15 @@ describe('coverage-study escapes', () => {
     expect(Math.abs(b.value / b.truth - 1)).toBeLessThan(0.08);
     expect(Math.abs(z)).toBeLessThan(2);
   }, 60_000);
+
+  it('case 255 (steps, a 4 Hz log): the σ of the sync offset carries the timing of the steps in the log (was 61 ms off at a stated 12 ms, z = 5.0)', async () => {
+    const out = await runCase(randomCase(255), join(work, 'case-255'));
+    const o = out.figures.offset!;
+    expect(o.stdErr).toBeGreaterThan(0.025); // the log's 0.25 s over √(12·steps), beside a frame's 40 ms over √12
+    expect(Math.abs(o.value - o.truth) / o.stdErr).toBeLessThan(2);
+    // and B, which the steps' plateaus fix, stays covered
+    const b = out.figures.B!;
+    expect(Math.abs(b.value - b.truth) / b.stdErr).toBeLessThan(2);
+  }, 60_000);
 });
+

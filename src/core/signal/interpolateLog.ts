@@ -29,6 +29,8 @@ export interface LogReading {
   gap: Uint8Array;
   /** 1 where the straight line was used (a step nearby). */
   linear: Uint8Array;
+  /** Steps of the log (not gaps) between the earliest and the latest query that fell inside it. */
+  stepCount: number;
 }
 
 export function medianInterval(timeS: Float64Array): number {
@@ -51,10 +53,12 @@ export function interpolateLog(timeS: Float64Array, valueV: Float64Array, queryS
   // steps: an interval whose change dwarfs both neighbours' changes
   const change = Float64Array.from(h, (_x, k) => Math.abs(valueV[k + 1]! - valueV[k]!));
   const stepNear = new Uint8Array(n - 1);
+  const isStep = new Uint8Array(n - 1);
   for (let k = 0; k < n - 1; k++) {
     const around = Math.max(k > 0 ? change[k - 1]! : 0, k < n - 2 ? change[k + 1]! : 0);
     if (change[k]! > STEP_RATIO * around && change[k]! > 6 * noiseV && change[k]! > 0) {
       for (let j = Math.max(0, k - 1); j <= Math.min(n - 2, k + 1); j++) stepNear[j] = 1;
+      if (!isGap[k]) isStep[k] = 1;
     }
   }
   // PCHIP slopes (Fritsch–Butland weighted harmonic mean; zero at local extrema); one-sided at
@@ -76,9 +80,12 @@ export function interpolateLog(timeS: Float64Array, valueV: Float64Array, queryS
   const gap = new Uint8Array(m);
   const linear = new Uint8Array(m);
   let k = 0;
+  let qFirst = Infinity, qLast = -Infinity;
   for (let i = 0; i < m; i++) {
     const q = queryS[i]!;
     if (!(q >= timeS[0]! && q <= timeS[n - 1]!)) { out[i] = NaN; continue; }
+    if (q < qFirst) qFirst = q;
+    if (q > qLast) qLast = q;
     if (q < timeS[k]!) k = 0;
     while (k < n - 2 && timeS[k + 1]! <= q) k++;
     if (isGap[k] && q > timeS[k]! && q < timeS[k + 1]!) { out[i] = NaN; gap[i] = 1; continue; }
@@ -88,7 +95,9 @@ export function interpolateLog(timeS: Float64Array, valueV: Float64Array, queryS
     const s2 = s * s, s3 = s2 * s;
     out[i] = (2 * s3 - 3 * s2 + 1) * y0 + (s3 - 2 * s2 + s) * h[k]! * d[k]! + (-2 * s3 + 3 * s2) * y1 + (s3 - s2) * h[k]! * d[k + 1]!;
   }
-  return { valueV: out, gap, linear };
+  let stepCount = 0;
+  for (let j = 0; j < n - 1; j++) if (isStep[j] && timeS[j + 1]! > qFirst && timeS[j]! < qLast) stepCount++;
+  return { valueV: out, gap, linear, stepCount };
 }
 
 /** Three-point one-sided slope with the PCHIP shape limits (Moler §3.4), or the chord's slope. */

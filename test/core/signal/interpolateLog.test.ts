@@ -44,4 +44,16 @@ describe('interpolateLog', () => {
     expect(r.valueV[2]).toBeCloseTo(0, 9);
     expect(r.valueV[3]).toBeCloseTo(5000, 9);
   });
+
+  it('counts the steps between the first and the last query, and neither a dropout nor a smooth arc as one', () => {
+    // a staircase logged at 4 Hz: 0 → 1 kV → 2 kV → 3 kV, each level held 1 s
+    const t = Float64Array.from({ length: 17 }, (_x, k) => k * 0.25);
+    const v = Float64Array.from(t, (x) => 1000 * Math.min(3, Math.floor(x)));
+    expect(interpolateLog(t, v, [0.1, 3.9]).stepCount).toBe(3);
+    expect(interpolateLog(t, v, [0.1, 1.6]).stepCount).toBe(1); // only the step at 1 s lies between
+    expect(interpolateLog(tLog, vLog, q).stepCount).toBe(0);
+    const keep = Array.from(tLog.keys()).filter((k) => k < 6 || k > 11);
+    expect(interpolateLog(Float64Array.from(keep, (k) => tLog[k]!), Float64Array.from(keep, (k) => vLog[k]!), q).stepCount).toBe(0);
+  });
 });
+
