@@ -40,6 +40,19 @@ export function medianInterval(timeS: Float64Array): number {
   return d[d.length >> 1]!;
 }
 
+/**
+ * The log's gaps: 1 for each interval [t_k, t_k+1] longer than GAP_FACTOR × the median sample
+ * interval (a logger dropout), else 0; n − 1 flags for n samples. The one rule for "a gap" that
+ * the voltage read here and the sync search (core/sync/modulationScorer) both follow.
+ * @example logGaps(Float64Array.of(0, 1, 2, 10, 11)) → [0, 0, 1, 0]
+ */
+export function logGaps(timeS: Float64Array): Uint8Array {
+  const gapLimit = GAP_FACTOR * medianInterval(timeS);
+  const flags = new Uint8Array(Math.max(0, timeS.length - 1));
+  for (let k = 0; k + 1 < timeS.length; k++) flags[k] = timeS[k + 1]! - timeS[k]! > gapLimit ? 1 : 0;
+  return flags;
+}
+
 export function interpolateLog(timeS: Float64Array, valueV: Float64Array, queryS: ArrayLike<number>, noiseV = 0): LogReading {
   const n = timeS.length;
   if (valueV.length !== n) throw invalid(`${n} values (one per sample time)`, 'interpolateLog(valueV)', `${valueV.length} values`);
@@ -48,8 +61,7 @@ export function interpolateLog(timeS: Float64Array, valueV: Float64Array, queryS
   const h = new Float64Array(n - 1);
   const delta = new Float64Array(n - 1);
   for (let k = 0; k < n - 1; k++) { h[k] = timeS[k + 1]! - timeS[k]!; delta[k] = (valueV[k + 1]! - valueV[k]!) / h[k]!; }
-  const gapLimit = GAP_FACTOR * medianInterval(timeS);
-  const isGap = Uint8Array.from(h, (x) => (x > gapLimit ? 1 : 0));
+  const isGap = logGaps(timeS);
   // steps: an interval whose change dwarfs both neighbours' changes
   const change = Float64Array.from(h, (_x, k) => Math.abs(valueV[k + 1]! - valueV[k]!));
   const stepNear = new Uint8Array(n - 1);

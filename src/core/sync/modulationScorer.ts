@@ -20,7 +20,7 @@
  *
  * A frame whose log time falls inside a gap of the log (an interval longer than GAP_FACTOR × the
  * median log interval: a logger dropout) is left out of that trial, never bridged by a straight
- * line, by the same rule as the voltage the fit reads (core/signal/interpolateLog): a line under a
+ * line, by the same rule as the voltage the fit reads (core/signal/interpolateLog, logGaps): a line under a
  * dropped peak reads the voltage low and pulls the offset (coverage study case 86: 72 ms off at a
  * stated 20 ms).
  *
@@ -32,8 +32,7 @@
  */
 
 import { lowerBound, segmentIndex, upperBound } from './sortedSearch.js';
-import { medianStep } from './medianStep.js';
-import { GAP_FACTOR } from '../signal/interpolateLog.js';
+import { logGaps } from '../signal/interpolateLog.js';
 
 const TABLE_SIZE = 4096; // entries per half period π of sin²
 const SIN2_TABLE = (() => {
@@ -73,7 +72,7 @@ interface Trace {
   logTimeS: Float64Array;
   /** Log voltage divided by its largest |V|. */
   logVoltageNorm: Float64Array;
-  /** 1 for each log interval [j, j+1] that is a gap (longer than GAP_FACTOR × the median interval). */
+  /** 1 for each log interval [j, j+1] that is a gap (logGaps). */
   gapAfter: Uint8Array;
 }
 
@@ -89,12 +88,7 @@ export function createModulationScorer(
   for (let i = 0; i < logCount; i++) maxAbsVoltageV = Math.max(maxAbsVoltageV, Math.abs(logVoltageV[i]));
   const logVoltageNorm = new Float64Array(logCount);
   for (let i = 0; i < logCount; i++) logVoltageNorm[i] = logVoltageV[i] / maxAbsVoltageV;
-  const gapAfter = new Uint8Array(Math.max(0, logCount - 1));
-  if (logCount >= 3) {
-    const gapLimitS = GAP_FACTOR * medianStep(logTimeS);
-    for (let j = 0; j + 1 < logCount; j++) gapAfter[j] = logTimeS[j + 1] - logTimeS[j] > gapLimitS ? 1 : 0;
-  }
-  const trace: Trace = { frameTimesS, intensity, logTimeS, logVoltageNorm, gapAfter };
+  const trace: Trace = { frameTimesS, intensity, logTimeS, logVoltageNorm, gapAfter: logGaps(logTimeS) };
   const logStartS = logTimeS[0];
   const logEndS = logTimeS[logCount - 1];
   const g: Gathered = { u: new Float64Array(frameTimesS.length), centred: new Float64Array(frameTimesS.length), count: 0, sumSquaresI: 0 };

@@ -4,7 +4,7 @@
  * less; a dropout is left out and flagged, never bridged; a step stays a straight line (no ringing).
  */
 import { describe, expect, it } from 'vitest';
-import { interpolateLog } from '../../../src/core/signal/interpolateLog.js';
+import { interpolateLog, logGaps } from '../../../src/core/signal/interpolateLog.js';
 import { interpolateAt } from '../../../src/core/signal/interpolate.js';
 
 describe('interpolateLog', () => {
@@ -55,5 +55,9 @@ describe('interpolateLog', () => {
     const keep = Array.from(tLog.keys()).filter((k) => k < 6 || k > 11);
     expect(interpolateLog(Float64Array.from(keep, (k) => tLog[k]!), Float64Array.from(keep, (k) => vLog[k]!), q).stepCount).toBe(0);
   });
-});
 
+  it('calls an interval a gap when it is longer than 4 median intervals (the one rule the sync search shares)', () => {
+    expect(Array.from(logGaps(Float64Array.of(0, 1, 2, 10, 11)))).toEqual([0, 0, 1, 0]); // 8 s > 4 × 1 s
+    expect(Array.from(logGaps(Float64Array.of(0, 1, 2, 6, 7)))).toEqual([0, 0, 0, 0]); // 4 s is not more than 4 × 1 s
+  });
+});
